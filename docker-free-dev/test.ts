@@ -1,0 +1,57 @@
+/**
+ * `npm test`: a throwaway PostgreSQL (own data folder, free port, database `tickover_test`), the mail
+ * catcher and the payments fake; then type-check, lint and every vitest test. Services stop even on failure.
+ */
+import { spawn } from 'node:child_process'
+import { bin, projectRoot } from './lib/children'
+import { type TestServices, startTestServices } from './lib/test-services'
+
+interface Step {
+  name: string
+  command: string
+  args: string[]
+}
+
+const steps: Step[] = [
+  { name: 'type-check', command: bin('vue-tsc'), args: ['--noEmit', '-p', 'tsconfig.json'] },
+  { name: 'lint', command: bin('eslint'), args: ['.'] },
+  { name: 'unit and API tests', command: bin('vitest'), args: ['run', ...process.argv.slice(2)] },
+]
+
+let services: TestServices | undefined
+
+function run(step: Step, env: Record<string, string>): Promise<number> {
+  return new Promise((resolve) => {
+    const child = spawn(step.command, step.args, { cwd: projectRoot, stdio: 'inherit', env: { ...process.env, ...env, NODE_ENV: 'test' } })
+    child.once('exit', (code, signal) => resolve(code ?? (signal ? 1 : 0)))
+  })
+}
+
+async function main(): Promise<number> {
+  const started = Date.now()
+  services = await startTestServices()
+  const results: { name: string; code: number; seconds: number }[] = []
+  for (const step of steps) {
+    console.log(`\n=== ${step.name} ===`)
+    const t = Date.now()
+    const code = await run(step, services.env)
+    results.push({ name: step.name, code, seconds: (Date.now() - t) / 1000 })
+  }
+  console.log('\n=== summary ===')
+  for (const r of results) console.log(`${r.code === 0 ? 'ok  ' : 'FAIL'}  ${r.name} (${r.seconds.toFixed(1)} s)`)
+  console.log(`total ${((Date.now() - started) / 1000).toFixed(1)} s`)
+  return results.some((r) => r.code !== 0) ? 1 : 0
+}
+
+async function stopAndExit(code: number) {
+  await services?.stop()
+  process.exit(code)
+}
+
+process.on('SIGINT', () => void stopAndExit(130))
+process.on('SIGTERM', () => void stopAndExit(143))
+
+main().then(stopAndExit, async (err: unknown) => {
+  console.error(err)
+  await stopAndExit(1)
+})

@@ -1,0 +1,5 @@
+export * from './workshops'
+export * from './staff'
+export * from './customers'
+export * from './vehicles'
+export * from './jobs'

@@ -1,0 +1,8 @@
+import pino from 'pino'
+
+export function createLogger(level: string) {
+  return pino({
+    level,
+    redact: { paths: ['req.headers.cookie', 'req.headers.authorization', 'res.headers["set-cookie"]'], censor: '[redacted]' },
+  })
+}

@@ -1,0 +1,13 @@
+import pino from 'pino'
+import { createApp } from '../../../server/app'
+import { createDatabase } from '../../../server/db/client'
+import { loadEnv } from '../../../server/env'
+
+/** The real app on the test database, without a built client. */
+export function makeTestApp(overrides: Record<string, string> = {}) {
+  const env = loadEnv({ ...process.env, CLIENT_DIST: '', LOG_LEVEL: 'silent', ...overrides })
+  const logger = pino({ level: 'silent' })
+  const { db, pool } = createDatabase(env.DATABASE_URL, logger, 4)
+  const app = createApp({ env, db, pool, logger, version: 'test' })
+  return { app, db, pool, env, close: () => pool.end() }
+}
