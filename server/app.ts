@@ -5,12 +5,31 @@ import helmet from 'helmet'
 import { pinoHttp } from 'pino-http'
 import type pg from 'pg'
 import type { Logger } from 'pino'
+import { Passport } from 'passport'
 import type { Database } from './db/client'
 import type { Env } from './env'
+import { recordAudit } from './lib/audit'
+import { type Mailer, createMailer } from './lib/mailer'
+import { createAuthLimits } from './lib/rate-limits'
+import { RouteTable } from './lib/route-table'
+import { absoluteLifetime, createSessionMiddleware, sessionCookieName } from './lib/session'
+import { csrfProtection } from './middleware/csrf'
 import { apiNotFound, errorHandler } from './middleware/errors'
 import { requestId } from './middleware/request-id'
+import { auditRoutes } from './modules/audit/audit.routes'
+import { createAuthRepo } from './modules/auth/auth.repo'
+import { authRoutes, configureMagicLink, inviteLinkHandler } from './modules/auth/auth.routes'
+import { createAuthService } from './modules/auth/auth.service'
+import { portalRoutes } from './modules/portal/portal.routes'
+import { createStaffRepo } from './modules/staff/staff.repo'
+import { staffRoutes } from './modules/staff/staff.routes'
+import { createStaffService } from './modules/staff/staff.service'
 import { createSystemService } from './modules/system/system.service'
 import { systemRoutes } from './modules/system/system.routes'
+import { createWorkshopRepo } from './modules/workshop/workshop.repo'
+import { workshopRoutes } from './modules/workshop/workshop.routes'
+import { createWorkshopService } from './modules/workshop/workshop.service'
+import type { Principal } from '../shared/schemas/auth'
 
 export interface AppDeps {
   env: Env
@@ -18,6 +37,7 @@ export interface AppDeps {
   pool: pg.Pool
   logger: Logger
   version?: string
+  mailer?: Mailer
 }
 
 /** Builds the Express app without listening, so tests drive it with supertest. */
@@ -51,9 +71,42 @@ export function createApp(deps: AppDeps): express.Express {
     }),
   )
 
+  const { db, pool } = deps
+  const mailer = deps.mailer ?? createMailer(env)
+  const table = new RouteTable()
+  app.locals.routeTable = table
+  app.set('session cookie name', sessionCookieName(env))
+
+  const authRepo = createAuthRepo(db)
+  const authService = createAuthService({ repo: authRepo, db, mailer, logger, env })
+  const passport = new Passport()
+  configureMagicLink(passport, authService, env)
+  passport.serializeUser((user: Express.User, done) => done(null, { kind: user.kind, id: user.id }))
+  passport.deserializeUser((stored: { kind: 'staff' | 'customer'; id: string }, done) => {
+    // Loaded fresh each request: a deactivated account or changed role takes effect at once.
+    authRepo.loadPrincipal(stored.kind, stored.id).then((p: Principal | undefined) => done(null, p ?? false), done)
+  })
+
   const api = express.Router()
   api.use(express.json({ limit: '1mb' }))
-  api.use(systemRoutes(createSystemService(deps.pool, deps.version ?? '0.0.0')))
+  api.use(createSessionMiddleware(env, pool))
+  api.use(passport.session())
+  api.use(
+    absoluteLifetime(env, (req) =>
+      recordAudit(db, req, { action: 'session.expired', workshopId: req.user?.workshop.id ?? null }),
+    ),
+  )
+  api.use(csrfProtection(env.ALLOWED_ORIGINS))
+
+  const groups = [
+    systemRoutes(table, createSystemService(pool, deps.version ?? '0.0.0')),
+    authRoutes(table, { passport, service: authService, db, limits: createAuthLimits(env, pool) }),
+    staffRoutes(table, { service: createStaffService({ repo: createStaffRepo(db), authRepo, db }), sendInviteLink: inviteLinkHandler(passport) }),
+    workshopRoutes(table, createWorkshopService({ repo: createWorkshopRepo(db), db })),
+    auditRoutes(table, db),
+    portalRoutes(table, db),
+  ]
+  for (const g of groups) api.use(g.base || '/', g.router)
   api.use(apiNotFound)
   app.use('/api', api)
 

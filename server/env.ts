@@ -1,3 +1,4 @@
+import { randomBytes } from 'node:crypto'
 import { z } from 'zod'
 
 const port = z.coerce.number().int().min(1).max(65535)
@@ -24,11 +25,35 @@ export const EnvSchema = z
     SMTP_PASS: z.string().optional(),
     MAIL_FROM: z.string().default('Tickover <no-reply@tickover.test>'),
     TRUST_PROXY: booleanish.default(false),
+    /** Signs session cookies and sign-in links; every server process must share it. */
+    AUTH_SECRET: z.string().min(32, 'must be at least 32 characters').optional(),
+    /** Sessions end after this long without a request… */
+    SESSION_IDLE_MINUTES: z.coerce.number().int().min(5).max(24 * 60).default(120),
+    /** …and this long after sign-in, however busy. */
+    SESSION_ABSOLUTE_HOURS: z.coerce.number().int().min(1).max(24 * 7).default(12),
+    /** Secure cookies; defaults to on when PUBLIC_BASE_URL is https. */
+    COOKIE_SECURE: booleanish.optional(),
+    /** Extra origins allowed to send state-changing requests (the Vite dev server, say), comma-separated. */
+    EXTRA_ORIGINS: z.string().default(''),
+    /** Set to false only to exercise a workload without limits. */
+    RATE_LIMITS: booleanish.default(true),
   })
-  .transform((env) => ({
-    ...env,
-    PUBLIC_BASE_URL: (env.PUBLIC_BASE_URL ?? `http://127.0.0.1:${env.PORT}`).replace(/\/$/, ''),
-  }))
+  .superRefine((env, ctx) => {
+    if (env.NODE_ENV === 'production' && !env.AUTH_SECRET && env.PUBLIC_BASE_URL?.startsWith('https:')) {
+      ctx.addIssue({ code: 'custom', path: ['AUTH_SECRET'], message: 'is required in production behind HTTPS' })
+    }
+  })
+  .transform((env) => {
+    const publicBaseUrl = (env.PUBLIC_BASE_URL ?? `http://127.0.0.1:${env.PORT}`).replace(/\/$/, '')
+    return {
+      ...env,
+      PUBLIC_BASE_URL: publicBaseUrl,
+      // Without a configured secret (local use), each process makes its own: sessions then end at restart.
+      AUTH_SECRET: env.AUTH_SECRET ?? randomBytes(32).toString('base64url'),
+      COOKIE_SECURE: env.COOKIE_SECURE ?? publicBaseUrl.startsWith('https:'),
+      ALLOWED_ORIGINS: [new URL(publicBaseUrl).origin, ...env.EXTRA_ORIGINS.split(',').map((o) => o.trim()).filter(Boolean)],
+    }
+  })
 
 export type Env = z.infer<typeof EnvSchema>
 

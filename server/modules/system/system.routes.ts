@@ -1,12 +1,12 @@
-import { Router } from 'express'
+import { type RouteTable, anyone } from '../../lib/route-table'
 import type { SystemService } from './system.service'
 
-export function systemRoutes(service: SystemService): Router {
-  const router = Router()
-  router.get('/health', (_req, res) => {
+export function systemRoutes(table: RouteTable, service: SystemService) {
+  const g = table.group('')
+  g.get('/health', anyone, (_req, res) => {
     res.json(service.health())
   })
-  router.get('/ready', async (req, res) => {
+  g.get('/ready', anyone, async (req, res) => {
     const ready = await service.ready()
     if (ready.ok) {
       res.json({ status: 'ready', database: 'ok' })
@@ -15,5 +15,5 @@ export function systemRoutes(service: SystemService): Router {
     req.log.warn({ reason: ready.reason }, 'not ready')
     res.status(503).json({ error: { code: 'not_ready', message: 'The database cannot be reached right now.' } })
   })
-  return router
+  return g
 }

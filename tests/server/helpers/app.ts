@@ -5,7 +5,7 @@ import { loadEnv } from '../../../server/env'
 
 /** The real app on the test database, without a built client. */
 export function makeTestApp(overrides: Record<string, string> = {}) {
-  const env = loadEnv({ ...process.env, CLIENT_DIST: '', LOG_LEVEL: 'silent', ...overrides })
+  const env = { ...loadEnv({ ...process.env, LOG_LEVEL: 'silent', RATE_LIMITS: 'false', ...overrides }), CLIENT_DIST: '' }
   const logger = pino({ level: 'silent' })
   const { db, pool } = createDatabase(env.DATABASE_URL, logger, 4)
   const app = createApp({ env, db, pool, logger, version: 'test' })

@@ -1,0 +1,49 @@
+import nodemailer from 'nodemailer'
+import type { Logger } from 'pino'
+import type { Env } from '../env'
+
+export interface MailMessage {
+  to: string
+  subject: string
+  text: string
+  html: string
+  replyTo?: string
+  fromName?: string
+}
+
+export interface Mailer {
+  send(message: MailMessage): Promise<void>
+}
+
+export function createMailer(env: Env): Mailer {
+  const transport = nodemailer.createTransport({
+    host: env.SMTP_HOST,
+    port: env.SMTP_PORT,
+    secure: env.SMTP_SECURE,
+    auth: env.SMTP_USER ? { user: env.SMTP_USER, pass: env.SMTP_PASS ?? '' } : undefined,
+    connectionTimeout: 5000,
+    greetingTimeout: 5000,
+  })
+  const fromAddress = env.MAIL_FROM
+  return {
+    async send(message) {
+      const from = message.fromName ? { name: message.fromName, address: addressOf(fromAddress) } : fromAddress
+      await transport.sendMail({ from, to: message.to, subject: message.subject, text: message.text, html: message.html, replyTo: message.replyTo })
+    },
+  }
+}
+
+function addressOf(from: string): string {
+  return /<([^>]+)>/.exec(from)?.[1] ?? from
+}
+
+/** Sends without holding up the request; a failure is logged with enough to resend by hand. */
+export function sendInBackground(mailer: Mailer, logger: Logger, message: MailMessage, what: string): void {
+  mailer.send(message).catch((err: unknown) => {
+    logger.error({ err, what, subject: message.subject }, 'e-mail could not be sent')
+  })
+}
+
+export function escapeHtml(text: string): string {
+  return text.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c] ?? c)
+}

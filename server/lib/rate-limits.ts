@@ -1,0 +1,35 @@
+import { createHash } from 'node:crypto'
+import type { RequestHandler } from 'express'
+import { ipKeyGenerator, rateLimit } from 'express-rate-limit'
+import type pg from 'pg'
+import type { Env } from '../env'
+import { PostgresRateLimitStore } from './rate-limit-store'
+
+const FIFTEEN_MINUTES = 15 * 60_000
+
+function limiter(pool: pg.Pool, prefix: string, limit: number, keyGenerator?: (req: Parameters<RequestHandler>[0]) => string): RequestHandler {
+  return rateLimit({
+    windowMs: FIFTEEN_MINUTES,
+    limit,
+    standardHeaders: 'draft-8',
+    legacyHeaders: false,
+    store: new PostgresRateLimitStore(pool, prefix),
+    ...(keyGenerator ? { keyGenerator } : {}),
+    handler: (_req, res) => {
+      res.status(429).json({ error: { code: 'too_many_requests', message: 'Too many attempts. Please wait a few minutes and try again.' } })
+    },
+  })
+}
+
+/** Sign-in requests are limited per address and per client, in PostgreSQL so the limit holds across processes. */
+export function createAuthLimits(env: Env, pool: pg.Pool) {
+  if (!env.RATE_LIMITS) {
+    const pass: RequestHandler = (_req, _res, next) => next()
+    return { byIp: pass, byEmail: pass, verifyByIp: pass }
+  }
+  return {
+    byIp: limiter(pool, 'link-ip:', 20, (req) => ipKeyGenerator(req.ip ?? 'unknown')),
+    byEmail: limiter(pool, 'link-email:', 5, (req) => createHash('sha256').update(String((req.body as { email?: string }).email ?? '')).digest('hex')),
+    verifyByIp: limiter(pool, 'verify-ip:', 30, (req) => ipKeyGenerator(req.ip ?? 'unknown')),
+  }
+}
