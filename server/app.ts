@@ -29,6 +29,14 @@ import { systemRoutes } from './modules/system/system.routes'
 import { createWorkshopRepo } from './modules/workshop/workshop.repo'
 import { workshopRoutes } from './modules/workshop/workshop.routes'
 import { createWorkshopService } from './modules/workshop/workshop.service'
+import { recordRoutes } from './lib/record-routes'
+import { createCustomersRepo } from './modules/customers/customers.repo'
+import { createCustomersService } from './modules/customers/customers.service'
+import { createJobsRepo } from './modules/jobs/jobs.repo'
+import { createJobsService } from './modules/jobs/jobs.service'
+import { createVehiclesRepo } from './modules/vehicles/vehicles.repo'
+import { createVehiclesService } from './modules/vehicles/vehicles.service'
+import { CustomerInputSchema, CustomerListQuerySchema, JobInputSchema, JobListQuerySchema, VehicleInputSchema, VehicleListQuerySchema } from '../shared/schemas/records'
 import type { Principal } from '../shared/schemas/auth'
 
 export interface AppDeps {
@@ -105,6 +113,21 @@ export function createApp(deps: AppDeps): express.Express {
     workshopRoutes(table, createWorkshopService({ repo: createWorkshopRepo(db), db })),
     auditRoutes(table, db),
     portalRoutes(table, db),
+    recordRoutes(table, '/customers', {
+      read: 'customers:read',
+      write: 'customers:write',
+      input: CustomerInputSchema,
+      listQuery: CustomerListQuerySchema,
+      service: createCustomersService(createCustomersRepo(db)),
+    }),
+    recordRoutes(table, '/vehicles', {
+      read: 'vehicles:read',
+      write: 'vehicles:write',
+      input: VehicleInputSchema,
+      listQuery: VehicleListQuerySchema,
+      service: createVehiclesService(createVehiclesRepo(db)),
+    }),
+    recordRoutes(table, '/jobs', { read: 'jobs:read', write: 'jobs:write', input: JobInputSchema, listQuery: JobListQuerySchema, service: createJobsService(createJobsRepo(db)) }),
   ]
   for (const g of groups) api.use(g.base || '/', g.router)
   api.use(apiNotFound)

@@ -48,16 +48,21 @@ function expected(rule: RouteRule, caller: Caller): 'allowed' | 401 | 403 | 404 
 /** Skipped for the matrix: requests that would end the caller's own session mid-test. */
 const endsSession = (rule: RouteRule) => rule.path === '/auth/sign-out'
 
-const validBodies: Record<string, object> = {
-  'patch /staff/:id/role': { role: 'advisor' },
+/** Bodies that pass validation, built from the caller's own workshop, so only tenancy can refuse them. */
+const validBodies: Record<string, (own: Fixture) => object> = {
+  'patch /staff/:id/role': () => ({ role: 'advisor' }),
+  'put /customers/:id': () => ({ name: 'Renamed', email: 'renamed@fixture.test' }),
+  'put /vehicles/:id': (own) => ({ customerId: own.customer.id, registration: 'MX1', make: 'Make', model: 'Model' }),
+  'put /jobs/:id': (own) => ({ vehicleId: own.vehicle.id, concern: 'Changed concern' }),
 }
 
 let home: Fixture
+let away: Fixture
 const sessions = new Map<Caller, Browser>()
 
 beforeAll(async () => {
   home = await makeWorkshop(t.db, 'Matrix Home')
-  const away = await makeWorkshop(t.db, 'Matrix Away')
+  away = await makeWorkshop(t.db, 'Matrix Away')
   sessions.set('anonymous', browser(t.app))
   sessions.set('technician', await signIn(t.app, home.technician.email))
   sessions.set('advisor', await signIn(t.app, home.advisor.email))
@@ -70,7 +75,9 @@ afterAll(() => t.close())
 
 function concretePath(rule: RouteRule): string {
   // Ids point at the home workshop's records; the technician is the target of staff changes.
-  return `/api${rule.path}`.replace(':id', home.technician.id)
+  const ids: Record<string, string> = { staff: home.technician.id, customers: home.customer.id, vehicles: home.vehicle.id, jobs: home.job.id }
+  const area = rule.path.split('/')[1] ?? ''
+  return `/api${rule.path}`.replace(':id', ids[area] ?? '00000000-0000-4000-8000-000000000000')
 }
 
 describe('the route table covers every route', () => {
@@ -95,7 +102,7 @@ describe('access matrix', () => {
         const path = concretePath(rule)
         // Empty bodies: an allowed write gets past the guard and stops at validation (422), changing nothing.
         // The other workshop's owner sends a valid body, so only the record's absence can stop them.
-        const body = caller === 'other-owner' ? (validBodies[`${rule.method} ${rule.path}`] ?? {}) : {}
+        const body = caller === 'other-owner' ? (validBodies[`${rule.method} ${rule.path}`]?.(away) ?? {}) : {}
         const res = rule.method === 'get' ? await b.get(path) : await b[rule.method](path, body)
         const want = expected(rule, caller)
         const ok = want === 'allowed' ? ![401, 403].includes(res.status) && res.status < 500 : res.status === want

@@ -25,6 +25,7 @@ export async function makeWorkshop(db: Database, name = 'Fixture Works') {
   const [vehicle] = await db.insert(vehicles).values({ workshopId: shop.id, customerId: customer.id, registration: `FX${t.slice(0, 4)}`, make: 'Testmake', model: 'Trail' }).returning()
   if (!vehicle) throw new Error('no vehicle')
   const [job] = await db.insert(jobs).values({ workshopId: shop.id, vehicleId: vehicle.id, concern: 'Knock on take-up of drive' }).returning()
+  if (!job) throw new Error('no job')
   const byRole = (role: string) => {
     const s = staff.find((x) => x.role === role)
     if (!s) throw new Error(`no ${role}`)

@@ -1,0 +1,67 @@
+import { deleteOrRefuse } from '../../lib/db-errors'
+import { type ErrorIssue, NotFoundError, ValidationError } from '../../lib/errors'
+import type { Page } from '../../../shared/schemas/common'
+import type { Job, JobInput, JobListQuery } from '../../../shared/schemas/records'
+import type { JobsRepo } from './jobs.repo'
+
+type Found = NonNullable<Awaited<ReturnType<JobsRepo['find']>>>
+
+const toJob = (f: Found): Job => ({
+  id: f.row.id,
+  vehicleId: f.row.vehicleId,
+  registration: f.registration,
+  vehicleDescription: f.vehicleDescription,
+  customerId: f.customerId,
+  customerName: f.customerName,
+  concern: f.row.concern,
+  status: f.row.status,
+  technicianId: f.row.technicianId,
+  technicianName: f.technicianName,
+  bookedFor: f.row.bookedFor,
+  promisedFor: f.row.promisedFor,
+  createdAt: f.row.createdAt.toISOString(),
+  updatedAt: f.row.updatedAt.toISOString(),
+})
+
+const notFound = () => new NotFoundError('No such job in this workshop.')
+
+export function createJobsService(repo: JobsRepo) {
+  async function get(workshopId: string, id: string) {
+    const found = await repo.find(workshopId, id)
+    if (!found) throw notFound()
+    return toJob(found)
+  }
+  async function checkRefs(workshopId: string, input: JobInput) {
+    const issues: ErrorIssue[] = []
+    if (!(await repo.vehicleExists(workshopId, input.vehicleId))) issues.push({ path: ['body', 'vehicleId'], message: 'Choose a vehicle of this workshop' })
+    if (input.technicianId && !(await repo.activeStaffExists(workshopId, input.technicianId))) {
+      issues.push({ path: ['body', 'technicianId'], message: 'Choose an active member of this workshop' })
+    }
+    if (issues.length) throw new ValidationError('Some of the details are not right. Please check the highlighted fields.', issues)
+  }
+  return {
+    async list(workshopId: string, q: JobListQuery): Promise<Page<Job>> {
+      const { items, total } = await repo.list(workshopId, q)
+      return { items: items.map(toJob), total, page: q.page, pageSize: q.pageSize }
+    },
+    get,
+    async create(workshopId: string, input: JobInput) {
+      await checkRefs(workshopId, input)
+      return get(workshopId, (await repo.insert(workshopId, input)).id)
+    },
+    async update(workshopId: string, id: string, input: JobInput) {
+      await checkRefs(workshopId, input)
+      if (!(await repo.update(workshopId, id, input))) throw notFound()
+      return get(workshopId, id)
+    },
+    async remove(workshopId: string, id: string) {
+      const removed = await deleteOrRefuse(
+        () => repo.remove(workshopId, id),
+        'This job has an inspection or estimate on record, so it cannot be deleted. Set its status to Cancelled instead.',
+      )
+      if (!removed) throw notFound()
+    },
+  }
+}
+
+export type JobsService = ReturnType<typeof createJobsService>
