@@ -68,7 +68,7 @@ beforeAll(async () => {
   sessions.set('advisor', await signIn(t.app, home.advisor.email))
   sessions.set('owner', await signIn(t.app, home.owner.email))
   sessions.set('other-owner', await signIn(t.app, away.owner.email))
-  sessions.set('customer', await signIn(t.app, home.customer.email, 'customer'))
+  sessions.set('customer', await signIn(t.app, home.customer.email ?? '', 'customer'))
 }, 60_000)
 
 afterAll(() => t.close())

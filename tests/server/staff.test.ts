@@ -101,7 +101,7 @@ describe('workshop settings', () => {
 describe('customer portal sign-in', () => {
   it('lets a customer sign in by link and see only their own vehicles', async () => {
     const f = await makeWorkshop(t.db)
-    const customer = await signIn(t.app, f.customer.email, 'customer')
+    const customer = await signIn(t.app, f.customer.email ?? '', 'customer')
     const me = await customer.get('/api/auth/me').expect(200)
     expect(me.body.user).toMatchObject({ kind: 'customer', id: f.customer.id })
     const vehicles = await customer.get('/api/portal/vehicles').expect(200)
