@@ -1,0 +1,82 @@
+import '@fontsource/lato/400.css'
+import '@fontsource/lato/700.css'
+import 'vuetify/styles'
+import '@/styles/main.css'
+import {
+  mdiAlert,
+  mdiAlertOctagon,
+  mdiCheckCircle,
+  mdiCloseCircle,
+  mdiDatabase,
+  mdiEmailOutline,
+  mdiEye,
+  mdiHelpCircleOutline,
+  mdiHomeOutline,
+  mdiRefresh,
+  mdiServer,
+} from '@mdi/js'
+import { createVuetify, type VuetifyOptions } from 'vuetify'
+import { aliases, mdi } from 'vuetify/iconsets/mdi-svg'
+import { severities, type SeverityIconName } from '@shared/schemas/severity'
+
+/** Keyed by the names in shared/schemas/severity.ts; `satisfies` fails the build if one is missing. */
+const severityIcons = {
+  'mdi-alert-octagon': mdiAlertOctagon,
+  'mdi-alert': mdiAlert,
+  'mdi-eye': mdiEye,
+  'mdi-check-circle': mdiCheckCircle,
+} satisfies Record<SeverityIconName, string>
+
+export const vuetifyOptions = {
+  theme: {
+    defaultTheme: 'tickover',
+    themes: {
+      tickover: {
+        dark: false,
+        colors: {
+          background: '#F6F5F2',
+          surface: '#FFFFFF',
+          primary: '#1F3A4D',
+          secondary: '#C8642B',
+          // White on copper is only 3.9:1; black is 5.3:1 and passes WCAG AA for body text.
+          'on-secondary': '#000000',
+          // Vuetify's own status colours would clash with, and read differently from, the severities.
+          error: severities.urgent.colour,
+          warning: severities.soon.colour,
+          info: severities.watch.colour,
+          success: severities.ok.colour,
+          urgent: severities.urgent.colour,
+          soon: severities.soon.colour,
+          watch: severities.watch.colour,
+          ok: severities.ok.colour,
+        },
+      },
+    },
+  },
+  icons: {
+    defaultSet: 'mdi',
+    aliases: {
+      ...aliases,
+      ...severityIcons,
+      home: mdiHomeOutline,
+      server: mdiServer,
+      database: mdiDatabase,
+      refresh: mdiRefresh,
+      email: mdiEmailOutline,
+      statusUp: mdiCheckCircle,
+      statusDown: mdiCloseCircle,
+      statusUnknown: mdiHelpCircleOutline,
+    },
+    sets: { mdi },
+  },
+  display: {
+    // Below 840 px (phones, small tablets upright) the staff app uses bottom navigation.
+    mobileBreakpoint: 'md',
+  },
+  defaults: {
+    // 44 px: the smallest target a gloved or greasy thumb hits reliably (WCAG 2.5.5).
+    VBtn: { size: 'large' },
+  },
+} satisfies VuetifyOptions
+
+export default createVuetify(vuetifyOptions)
