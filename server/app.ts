@@ -56,7 +56,19 @@ export function createApp(deps: AppDeps): express.Express {
   app.set('trust proxy', env.TRUST_PROXY ? 1 : false)
   app.set('query parser', 'simple')
 
-  app.use(pinoHttp({ logger, genReqId: requestId, autoLogging: { ignore: (req) => req.url === '/api/health' } }))
+  app.use(
+    pinoHttp({
+      logger,
+      genReqId: requestId,
+      autoLogging: { ignore: (req) => req.url === '/api/health' },
+      // Query strings can carry sign-in and estimate tokens, so they never reach the logs.
+      serializers: {
+        req: (req: { id: string; method: string; url: string }) => ({ id: req.id, method: req.method, path: req.url.split('?')[0] }),
+        res: (res: { statusCode: number }) => ({ statusCode: res.statusCode }),
+      },
+      customLogLevel: (_req, res, err) => (err || res.statusCode >= 500 ? 'error' : res.statusCode >= 400 ? 'warn' : 'info'),
+    }),
+  )
   app.use(
     helmet({
       contentSecurityPolicy: {

@@ -11,7 +11,8 @@ export const VinSchema = z
   .toUpperCase()
   .refine((v) => v.length === 17, 'A VIN has exactly 17 characters')
   .refine((v) => !/[IOQ]/.test(v), 'A VIN never contains the letters I, O or Q (ISO 3779)')
-  .refine((v) => VIN_PATTERN.test(v), 'A VIN has only letters and digits')
+  // Only about other characters: a wrong length or an I, O or Q has its own message above.
+  .refine((v) => /^[A-Z0-9]*$/.test(v), 'A VIN has only letters and digits')
 
 const optionalEmail = z
   .union([z.literal(''), EmailSchema])

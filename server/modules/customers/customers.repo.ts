@@ -12,7 +12,10 @@ export function createCustomersRepo(db: Database) {
       where.push(q.archived ? isNotNull(customers.archivedAt) : isNull(customers.archivedAt))
       if (q.q) {
         const p = likePattern(q.q)
-        const any = or(ilike(customers.name, p), ilike(customers.email, p), ilike(customers.phone, p), ilike(customers.postcode, p))
+        // Phone numbers are typed with and without spaces: compare both without them.
+        const compact = likePattern(q.q.replace(/\s+/g, ''))
+        const phone = sql`replace(${customers.phone}, ' ', '')`
+        const any = or(ilike(customers.name, p), ilike(customers.email, p), ilike(phone, compact), ilike(customers.postcode, p))
         if (any) where.push(any)
       }
       const column = q.sortBy === 'createdAt' ? customers.createdAt : customers.name

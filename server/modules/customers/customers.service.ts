@@ -5,6 +5,9 @@ import type { Customer, CustomerInput, CustomerListQuery } from '../../../shared
 import type { Page } from '../../../shared/schemas/common'
 import type { CustomersRepo } from './customers.repo'
 
+/** PUT replaces the record: an optional field left out is cleared, not kept (drizzle skips undefined). */
+const columns = (input: CustomerInput) => ({ ...input, email: input.email ?? null, phone: input.phone ?? null, postcode: input.postcode ?? null })
+
 const toCustomer = (row: typeof customers.$inferSelect, vehicleCount?: number): Customer => ({
   id: row.id,
   name: row.name,
@@ -36,7 +39,7 @@ export function createCustomersService(repo: CustomersRepo) {
       return toCustomer(await repo.insert(workshopId, input), 0)
     },
     async update(workshopId: string, id: string, input: CustomerInput) {
-      const row = await repo.update(workshopId, id, input)
+      const row = await repo.update(workshopId, id, columns(input))
       if (!row) throw new NotFoundError('No such customer in this workshop.')
       return get(workshopId, id)
     },

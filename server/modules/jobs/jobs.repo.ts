@@ -27,7 +27,9 @@ export function createJobsRepo(db: Database) {
       if (q.vehicleId) where.push(eq(jobs.vehicleId, q.vehicleId))
       if (q.q) {
         const p = likePattern(q.q)
-        const any = or(ilike(jobs.concern, p), ilike(vehicles.registration, p), ilike(customers.name, p))
+        // As for vehicles: a plate matches typed with or without its space.
+        const plate = likePattern(q.q.replace(/\s+/g, ''))
+        const any = or(ilike(jobs.concern, p), ilike(sql`replace(${vehicles.registration}, ' ', '')`, plate), ilike(customers.name, p))
         if (any) where.push(any)
       }
       const column = q.sortBy === 'status' ? jobs.status : q.sortBy === 'registration' ? vehicles.registration : q.sortBy === 'bookedFor' ? jobs.bookedFor : jobs.createdAt

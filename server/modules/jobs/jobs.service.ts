@@ -31,10 +31,11 @@ export function createJobsService(repo: JobsRepo) {
     if (!found) throw notFound()
     return toJob(found)
   }
-  async function checkRefs(workshopId: string, input: JobInput) {
+  /** `assigned` is the job's current technician: someone who has since left may stay on the jobs they did. */
+  async function checkRefs(workshopId: string, input: JobInput, assigned: string | null = null) {
     const issues: ErrorIssue[] = []
     if (!(await repo.vehicleExists(workshopId, input.vehicleId))) issues.push({ path: ['body', 'vehicleId'], message: 'Choose a vehicle of this workshop' })
-    if (input.technicianId && !(await repo.activeStaffExists(workshopId, input.technicianId))) {
+    if (input.technicianId && input.technicianId !== assigned && !(await repo.activeStaffExists(workshopId, input.technicianId))) {
       issues.push({ path: ['body', 'technicianId'], message: 'Choose an active member of this workshop' })
     }
     if (issues.length) throw new ValidationError('Some of the details are not right. Please check the highlighted fields.', issues)
@@ -50,8 +51,13 @@ export function createJobsService(repo: JobsRepo) {
       return get(workshopId, (await repo.insert(workshopId, input)).id)
     },
     async update(workshopId: string, id: string, input: JobInput) {
-      await checkRefs(workshopId, input)
-      if (!(await repo.update(workshopId, id, input))) throw notFound()
+      const current = await repo.find(workshopId, id)
+      if (!current) throw notFound()
+      await checkRefs(workshopId, input, current.row.technicianId)
+      // PUT replaces the job: a date or technician left out is cleared, not kept (drizzle skips undefined),
+      // which also keeps an old booking date from tripping the promised-after-booked check.
+      const values = { ...input, technicianId: input.technicianId ?? null, bookedFor: input.bookedFor ?? null, promisedFor: input.promisedFor ?? null }
+      if (!(await repo.update(workshopId, id, values))) throw notFound()
       return get(workshopId, id)
     },
     async remove(workshopId: string, id: string) {

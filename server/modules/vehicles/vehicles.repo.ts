@@ -1,4 +1,4 @@
-import { type SQL, and, asc, count, desc, eq, ilike, isNotNull, isNull, or } from 'drizzle-orm'
+import { type SQL, and, asc, count, desc, eq, ilike, isNotNull, isNull, or, sql } from 'drizzle-orm'
 import type { Database } from '../../db/client'
 import { customers, vehicles } from '../../db/schema'
 import type { VehicleInput, VehicleListQuery } from '../../../shared/schemas/records'
@@ -13,8 +13,9 @@ export function createVehiclesRepo(db: Database) {
       if (q.customerId) where.push(eq(vehicles.customerId, q.customerId))
       if (q.q) {
         const p = likePattern(q.q)
+        // Plates are written with and without their space ("BF19 KRT", "bf19krt"): compare both without spaces.
         const compact = likePattern(q.q.replace(/\s+/g, ''))
-        const any = or(ilike(vehicles.registration, p), ilike(vehicles.registration, compact), ilike(vehicles.vin, p), ilike(vehicles.make, p), ilike(vehicles.model, p), ilike(customers.name, p))
+        const any = or(ilike(sql`replace(${vehicles.registration}, ' ', '')`, compact), ilike(vehicles.vin, p), ilike(vehicles.make, p), ilike(vehicles.model, p), ilike(customers.name, p))
         if (any) where.push(any)
       }
       const column = q.sortBy === 'make' ? vehicles.make : q.sortBy === 'createdAt' ? vehicles.createdAt : vehicles.registration

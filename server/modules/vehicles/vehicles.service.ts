@@ -21,6 +21,15 @@ const toVehicle = (row: typeof vehicles.$inferSelect, customerName: string): Veh
   createdAt: row.createdAt.toISOString(),
 })
 
+/** PUT replaces the record: an optional field left out is cleared, not kept (drizzle skips undefined). */
+const columns = (input: VehicleInput) => ({
+  ...input,
+  vin: input.vin ?? null,
+  year: input.year ?? null,
+  odometer: input.odometer ?? null,
+  vehicleGroup: input.vehicleGroup ?? null,
+})
+
 const notFound = () => new NotFoundError('No such vehicle in this workshop.')
 
 export function createVehiclesService(repo: VehiclesRepo) {
@@ -47,7 +56,7 @@ export function createVehiclesService(repo: VehiclesRepo) {
     },
     async update(workshopId: string, id: string, input: VehicleInput) {
       await checkCustomer(workshopId, input.customerId)
-      if (!(await repo.update(workshopId, id, input))) throw notFound()
+      if (!(await repo.update(workshopId, id, columns(input)))) throw notFound()
       return get(workshopId, id)
     },
     async setArchived(workshopId: string, id: string, archived: boolean) {
