@@ -1,0 +1,2 @@
+export { calculateEstimate, EstimateInputError, safeCalculateEstimate, summarise } from './engine'
+export type { EstimateIssue, SafeEstimateResult } from './engine'
