@@ -18,6 +18,7 @@ export const permissions = [
   'jobs:read',
   'jobs:write',
   'inspections:write',
+  'findings:write',
   'estimates:write',
   'catalogue:manage',
 ] as const
@@ -32,13 +33,14 @@ const advisorPermissions: Permission[] = [
   'vehicles:write',
   'jobs:read',
   'jobs:write',
+  'findings:write',
   'estimates:write',
 ]
 
 export const rolePermissions: Record<StaffRole, ReadonlySet<Permission>> = {
   owner: new Set(permissions),
   advisor: new Set(advisorPermissions),
-  technician: new Set<Permission>(['workshop:read', 'staff:read', 'vehicles:read', 'jobs:read', 'inspections:write']),
+  technician: new Set<Permission>(['workshop:read', 'staff:read', 'vehicles:read', 'jobs:read', 'inspections:write', 'findings:write']),
 }
 
 export function can(role: StaffRole | undefined | null, permission: Permission): boolean {

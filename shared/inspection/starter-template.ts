@@ -1,0 +1,357 @@
+/**
+ * The starter drivetrain check list, in our own words. The checks and their thresholds are common
+ * workshop practice, not figures from a maker's manual; owners copy and adjust them for their vehicles.
+ * Labour codes and part numbers refer to the workshop's own labour-time table and catalogue.
+ */
+import type { CheckDefinition, TemplateDefinition } from '../schemas/inspections'
+
+const sides = ['left', 'right'] as CheckDefinition['positions']
+const ends = ['front', 'rear'] as CheckDefinition['positions']
+const single = ['none'] as CheckDefinition['positions']
+
+export const starterChecks: CheckDefinition[] = [
+  {
+    code: 'swivel-leak',
+    area: 'swivel-housings',
+    prompt: 'Oil at the swivel housing seal',
+    help: 'A light film (a weep) is normal. Oil that is wet and collecting after a recent wash is a leak.',
+    positions: sides,
+    underVehicle: true,
+    input: {
+      kind: 'choice',
+      options: [
+        { value: 'none', label: 'Dry', severity: 'ok' },
+        { value: 'weep', label: 'Light weep', severity: 'watch' },
+        { value: 'leak', label: 'Wet leak', severity: 'soon' },
+      ],
+    },
+    findingTitle: 'Swivel housing seal leaking',
+    explanation: {
+      what: 'The large round seal around the steering swivel is letting oil out.',
+      why: 'A seal that lets oil out also lets water and grit in, which wears the swivel bearings and the joint inside.',
+      ifLeft: 'The swivel runs short of oil, the bearings wear, and the repair grows from a seal to bearings and possibly the joint.',
+    },
+    suggestedRepair: { labour: ['SWV-SEAL'], parts: ['SWV-SEAL-KIT'] },
+  },
+  {
+    code: 'swivel-ball',
+    area: 'swivel-housings',
+    prompt: 'Swivel ball surface',
+    help: 'Look at the chrome where the seal runs. Pitting or flaking chrome cuts a new seal within weeks.',
+    positions: sides,
+    underVehicle: true,
+    input: {
+      kind: 'choice',
+      options: [
+        { value: 'good', label: 'Smooth', severity: 'ok' },
+        { value: 'pitted', label: 'Pitted', severity: 'soon' },
+        { value: 'flaking', label: 'Chrome flaking', severity: 'soon' },
+        { value: 'rust', label: 'Rusted', severity: 'urgent' },
+      ],
+    },
+    findingTitle: 'Swivel ball surface damaged',
+    explanation: {
+      what: 'The polished ball that the swivel seal wipes over is pitted, flaking or rusted.',
+      why: 'A rough ball tears the seal, so a new seal alone will not stay dry.',
+      ifLeft: 'Leaks return quickly and the swivel bearings and joint run in contaminated oil.',
+    },
+    suggestedRepair: { labour: ['SWV-BALL'], parts: ['SWV-BALL', 'SWV-SEAL-KIT'] },
+  },
+  {
+    code: 'swivel-lube',
+    area: 'swivel-housings',
+    prompt: 'What is inside the swivel housing',
+    positions: sides,
+    underVehicle: true,
+    input: {
+      kind: 'choice',
+      options: [
+        { value: 'oil', label: 'Oil', severity: 'ok' },
+        { value: 'grease', label: 'Grease (sealed-for-life fill)', severity: 'ok' },
+        { value: 'dry', label: 'Dry or nearly empty', severity: 'urgent' },
+      ],
+    },
+    findingTitle: 'Swivel housing running dry',
+    explanation: {
+      what: 'There is little or no lubricant inside the swivel housing.',
+      why: 'The joint and swivel bearings inside depend on it.',
+      ifLeft: 'Dry running wears the joint and bearings fast and can seize the steering swivel.',
+    },
+    suggestedRepair: { labour: ['SWV-SEAL'], parts: ['SWV-SEAL-KIT', 'OIL-EP90-1L'] },
+  },
+  {
+    code: 'swivel-bearing-play',
+    area: 'swivel-housings',
+    prompt: 'Swivel bearing play (rock the wheel top to bottom)',
+    positions: sides,
+    underVehicle: true,
+    input: { kind: 'pass-fail', failSeverity: 'soon' },
+    findingTitle: 'Swivel bearings worn',
+    explanation: {
+      what: 'The bearings the steering swivel turns on have worn and let the wheel rock.',
+      why: 'Worn swivel bearings upset steering and tyre wear.',
+      ifLeft: 'Wander and uneven tyre wear get worse, and the housing can be damaged.',
+    },
+    suggestedRepair: { labour: ['SWV-BRG'], parts: ['SWV-BRG-KIT'] },
+  },
+  {
+    code: 'cv-noise',
+    area: 'cv-joints',
+    prompt: 'CV joint noise on full lock (clicking under load)',
+    positions: sides,
+    underVehicle: false,
+    input: {
+      kind: 'choice',
+      options: [
+        { value: 'quiet', label: 'Quiet', severity: 'ok' },
+        { value: 'click', label: 'Clicks on full lock', severity: 'soon' },
+        { value: 'knock', label: 'Knocks or binds', severity: 'urgent' },
+      ],
+    },
+    findingTitle: 'CV joint worn',
+    explanation: {
+      what: 'The constant-velocity joint that drives the front wheel while it steers is worn.',
+      why: 'Worn joints click on tight turns first, then knock.',
+      ifLeft: 'A joint can break, leaving the wheel without drive and the vehicle stranded.',
+    },
+    suggestedRepair: { labour: ['CV-REPLACE'], parts: ['CV-JOINT', 'SWV-SEAL-KIT'] },
+  },
+  {
+    code: 'cv-boot',
+    area: 'cv-joints',
+    prompt: 'CV joint boot or housing condition',
+    positions: sides,
+    underVehicle: true,
+    input: {
+      kind: 'choice',
+      options: [
+        { value: 'good', label: 'Sound', severity: 'ok' },
+        { value: 'cracked', label: 'Cracked', severity: 'soon' },
+        { value: 'split', label: 'Split, grease thrown', severity: 'urgent' },
+      ],
+    },
+    findingTitle: 'CV joint boot damaged',
+    explanation: {
+      what: 'The cover that keeps grease in and dirt out of the joint is cracked or split.',
+      why: 'Grit and water get into the joint and wear it quickly.',
+      ifLeft: 'A cheap boot becomes a full joint replacement.',
+    },
+    suggestedRepair: { labour: ['CV-BOOT'], parts: ['CV-BOOT-KIT'] },
+  },
+  {
+    code: 'prop-flange-bolts',
+    area: 'prop-shafts',
+    prompt: 'Prop shaft flange bolts tight',
+    positions: ends,
+    underVehicle: true,
+    input: { kind: 'pass-fail', failSeverity: 'urgent' },
+    findingTitle: 'Prop shaft flange bolts loose',
+    explanation: {
+      what: 'The bolts holding the prop shaft to its flange are loose or missing.',
+      why: 'A loose flange knocks and can let the shaft drop.',
+      ifLeft: 'A prop shaft coming loose at speed can damage the vehicle and lose drive.',
+    },
+    suggestedRepair: { labour: ['PROP-FLANGE'], parts: ['PROP-BOLT-SET'] },
+  },
+  {
+    code: 'prop-uj-play',
+    area: 'prop-shafts',
+    prompt: 'UJ play (twist and lift across the joint)',
+    positions: ends,
+    underVehicle: true,
+    input: {
+      kind: 'choice',
+      options: [
+        { value: 'none', label: 'No play', severity: 'ok' },
+        { value: 'slight', label: 'Slight play', severity: 'watch' },
+        { value: 'worn', label: 'Worn, clunks', severity: 'soon' },
+      ],
+    },
+    findingTitle: 'Prop shaft UJ worn',
+    explanation: {
+      what: 'A universal joint on the prop shaft has play in it.',
+      why: 'Worn UJs cause clunks when taking up drive and vibration at speed.',
+      ifLeft: 'The joint can fail and the shaft can flail under the vehicle.',
+    },
+    suggestedRepair: { labour: ['PROP-UJ'], parts: ['UJ-STD'] },
+  },
+  {
+    code: 'prop-spline-play',
+    area: 'prop-shafts',
+    prompt: 'Spline play at the slider (turn one half against the other)',
+    positions: ends,
+    underVehicle: true,
+    input: { kind: 'pass-fail', failSeverity: 'soon' },
+    findingTitle: 'Prop shaft slider splines worn',
+    explanation: {
+      what: 'The sliding joint in the prop shaft has rotational play in its splines.',
+      why: 'Play at the slider shows as a knock on take-up of drive.',
+      ifLeft: 'The knock gets worse and the shaft wears unevenly.',
+    },
+    suggestedRepair: { labour: ['PROP-REPLACE'], parts: ['PROP-SHAFT'] },
+  },
+  {
+    code: 'prop-slider-orientation',
+    area: 'prop-shafts',
+    prompt: 'Slider fitted toward the gearbox end',
+    help: 'The sliding joint is normally at the gearbox end so that dirt falls away from the seal (common practice).',
+    positions: ends,
+    underVehicle: true,
+    input: { kind: 'guided', test: 'slider-orientation', faultySeverity: 'watch' },
+    findingTitle: 'Prop shaft fitted the wrong way round',
+    explanation: {
+      what: 'The prop shaft has been fitted with its sliding joint at the axle end.',
+      why: 'Fitted this way the slider collects dirt and water and wears faster.',
+      ifLeft: 'Early wear of the slider and its seal.',
+    },
+    suggestedRepair: { labour: ['PROP-REFIT'], parts: [] },
+  },
+  {
+    code: 'prop-vibration',
+    area: 'prop-shafts',
+    prompt: 'Vibration from the prop shaft on the road test',
+    positions: single,
+    underVehicle: false,
+    input: {
+      kind: 'choice',
+      options: [
+        { value: 'none', label: 'None', severity: 'ok' },
+        { value: 'slight', label: 'Slight at speed', severity: 'watch' },
+        { value: 'strong', label: 'Strong, through the floor', severity: 'soon' },
+      ],
+    },
+    findingTitle: 'Prop shaft vibration',
+    explanation: {
+      what: 'The prop shaft vibrates at speed, usually from a worn joint or lost balance.',
+      why: 'Vibration wears the joints and the gearbox and axle seals.',
+      ifLeft: 'Joints and seals wear early; the vibration grows.',
+    },
+    suggestedRepair: { labour: ['PROP-BALANCE'], parts: [] },
+  },
+  {
+    code: 'diff-backlash',
+    area: 'axle-differentials',
+    prompt: 'Backlash at the prop flange',
+    help: 'With the wheels held, turn the flange back and forth and read the free play in degrees or as a part of a turn. More than about 1/8 turn (45°) is excessive (common practice).',
+    positions: ends,
+    underVehicle: true,
+    input: { kind: 'guided', test: 'backlash', faultySeverity: 'soon', limitDegrees: '45' },
+    findingTitle: 'Axle backlash excessive',
+    explanation: {
+      what: 'There is too much free play in the axle’s gears and joints between the prop shaft and the wheels.',
+      why: 'Play shows as a clunk when taking up drive and means wear in the differential or its bearings.',
+      ifLeft: 'Wear speeds up and the differential can fail.',
+    },
+    suggestedRepair: { labour: ['DIFF-OVERHAUL'], parts: ['DIFF-BRG-KIT'] },
+  },
+  {
+    code: 'diff-operation',
+    area: 'axle-differentials',
+    prompt: 'Differential operation test',
+    help: 'Vehicle on stands, both wheels of the axle free.',
+    positions: ends,
+    underVehicle: true,
+    input: { kind: 'guided', test: 'diff-operation', faultySeverity: 'urgent' },
+    findingTitle: 'Differential unit faulty',
+    explanation: {
+      what: 'The differential no longer lets the wheels turn at different speeds properly.',
+      why: 'It may bind on corners, wear tyres, or stop driving the wheels.',
+      ifLeft: 'Loss of drive and damage to the axle.',
+    },
+    suggestedRepair: { labour: ['DIFF-REPLACE'], parts: ['DIFF-UNIT'] },
+  },
+  {
+    code: 'diff-oil',
+    area: 'axle-differentials',
+    prompt: 'Axle oil level and leaks',
+    positions: ends,
+    underVehicle: true,
+    input: {
+      kind: 'choice',
+      options: [
+        { value: 'ok', label: 'Level correct, dry', severity: 'ok' },
+        { value: 'low', label: 'Low', severity: 'soon' },
+        { value: 'leaking', label: 'Leaking at the pinion seal', severity: 'soon' },
+      ],
+    },
+    findingTitle: 'Axle oil low or leaking',
+    explanation: {
+      what: 'The axle is short of oil or leaking at a seal.',
+      why: 'The gears and bearings need the right amount of oil.',
+      ifLeft: 'Overheating and wear of the gears and bearings.',
+    },
+    suggestedRepair: { labour: ['DIFF-PINION-SEAL'], parts: ['PINION-SEAL', 'OIL-EP90-1L'] },
+  },
+  {
+    code: 'tbox-output-play',
+    area: 'transfer-box',
+    prompt: 'Output flange bearing lift or play',
+    positions: ends,
+    underVehicle: true,
+    input: { kind: 'pass-fail', failSeverity: 'soon' },
+    findingTitle: 'Transfer box output bearing worn',
+    explanation: {
+      what: 'The bearing that carries a transfer box output flange has play.',
+      why: 'A worn bearing lets the seal leak and the gears misalign.',
+      ifLeft: 'Oil loss and noise, then gear damage.',
+    },
+    suggestedRepair: { labour: ['TBOX-OUTPUT-BRG'], parts: ['TBOX-BRG-KIT'] },
+  },
+  {
+    code: 'tbox-centre-diff',
+    area: 'transfer-box',
+    prompt: 'Centre differential and lock test',
+    positions: single,
+    underVehicle: true,
+    input: { kind: 'guided', test: 'centre-diff', faultySeverity: 'soon' },
+    findingTitle: 'Centre differential or lock faulty',
+    explanation: {
+      what: 'The centre differential or its lock does not behave as it should.',
+      why: 'It shares drive between the front and rear axles.',
+      ifLeft: 'Knocks on take-up of drive, transmission wind-up, or a lock that will not engage off-road.',
+    },
+    suggestedRepair: { labour: ['TBOX-CDIFF'], parts: ['CDIFF-UNIT'] },
+  },
+  {
+    code: 'hub-bearing-play',
+    area: 'half-shafts-hubs',
+    prompt: 'Hub bearing play and noise (spin and rock the wheel)',
+    positions: sides,
+    underVehicle: true,
+    input: {
+      kind: 'choice',
+      options: [
+        { value: 'good', label: 'Smooth, no play', severity: 'ok' },
+        { value: 'rumble', label: 'Rumbles', severity: 'soon' },
+        { value: 'play', label: 'Play felt', severity: 'urgent' },
+      ],
+    },
+    findingTitle: 'Wheel hub bearing worn',
+    explanation: {
+      what: 'The wheel bearing is rough or has play.',
+      why: 'The bearing carries the vehicle’s weight at that wheel.',
+      ifLeft: 'It gets louder, overheats and in the end can let the wheel move on the axle.',
+    },
+    suggestedRepair: { labour: ['HUB-BRG'], parts: ['HUB-BRG-KIT'] },
+  },
+  {
+    code: 'half-shaft-turning',
+    area: 'half-shafts-hubs',
+    prompt: 'Half shaft turns the wheel without noise',
+    positions: sides,
+    underVehicle: true,
+    input: { kind: 'pass-fail', failSeverity: 'urgent' },
+    findingTitle: 'Half shaft damaged',
+    explanation: {
+      what: 'The shaft that drives the wheel is twisted, cracked or its splines are worn.',
+      why: 'It carries all the drive to that wheel.',
+      ifLeft: 'It can break and leave the wheel without drive.',
+    },
+    suggestedRepair: { labour: ['HALF-SHAFT'], parts: ['HALF-SHAFT'] },
+  },
+]
+
+export const starterTemplate: { name: string; definition: TemplateDefinition } = {
+  name: 'Drivetrain check (starter)',
+  definition: { checks: starterChecks },
+}
