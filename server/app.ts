@@ -17,6 +17,7 @@ import { csrfProtection } from './middleware/csrf'
 import { apiNotFound, errorHandler } from './middleware/errors'
 import { requestId } from './middleware/request-id'
 import { auditRoutes } from './modules/audit/audit.routes'
+import { catalogueRoutes } from './modules/catalogue/catalogue.routes'
 import { createAuthRepo } from './modules/auth/auth.repo'
 import { authRoutes, configureMagicLink, inviteLinkHandler } from './modules/auth/auth.routes'
 import { createAuthService } from './modules/auth/auth.service'
@@ -30,6 +31,10 @@ import { createWorkshopRepo } from './modules/workshop/workshop.repo'
 import { workshopRoutes } from './modules/workshop/workshop.routes'
 import { createWorkshopService } from './modules/workshop/workshop.service'
 import { recordRoutes } from './lib/record-routes'
+import { type FileStorage, createLocalStorage } from './lib/storage'
+import { createInspectionsRepo } from './modules/inspections/inspections.repo'
+import { inspectionsRoutes } from './modules/inspections/inspections.routes'
+import { createInspectionsService } from './modules/inspections/inspections.service'
 import { createCustomersRepo } from './modules/customers/customers.repo'
 import { createCustomersService } from './modules/customers/customers.service'
 import { createJobsRepo } from './modules/jobs/jobs.repo'
@@ -46,6 +51,7 @@ export interface AppDeps {
   logger: Logger
   version?: string
   mailer?: Mailer
+  storage?: FileStorage
 }
 
 /** Builds the Express app without listening, so tests drive it with supertest. */
@@ -125,6 +131,7 @@ export function createApp(deps: AppDeps): express.Express {
     workshopRoutes(table, createWorkshopService({ repo: createWorkshopRepo(db), db })),
     auditRoutes(table, db),
     portalRoutes(table, db),
+    catalogueRoutes(table, db),
     recordRoutes(table, '/customers', {
       read: 'customers:read',
       write: 'customers:write',
@@ -139,6 +146,7 @@ export function createApp(deps: AppDeps): express.Express {
       listQuery: VehicleListQuerySchema,
       service: createVehiclesService(createVehiclesRepo(db)),
     }),
+    ...inspectionsRoutes(table, createInspectionsService({ repo: createInspectionsRepo(db), storage: deps.storage ?? createLocalStorage(env.UPLOAD_DIR) })),
     recordRoutes(table, '/jobs', { read: 'jobs:read', write: 'jobs:write', input: JobInputSchema, listQuery: JobListQuerySchema, service: createJobsService(createJobsRepo(db)) }),
   ]
   for (const g of groups) api.use(g.base || '/', g.router)

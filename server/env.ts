@@ -35,6 +35,8 @@ export const EnvSchema = z
     COOKIE_SECURE: booleanish.optional(),
     /** Extra origins allowed to send state-changing requests (the Vite dev server, say), comma-separated. */
     EXTRA_ORIGINS: z.string().default(''),
+    /** Photos are stored here, outside anything the web server serves. */
+    UPLOAD_DIR: z.string().default('.data/uploads'),
     /** Set to false only to exercise a workload without limits. */
     RATE_LIMITS: booleanish.default(true),
   })

@@ -7,6 +7,8 @@ import { count } from 'drizzle-orm'
 import { drizzle } from 'drizzle-orm/node-postgres'
 import pg from 'pg'
 import * as schema from './schema'
+import { seedCatalogue } from './seed-catalogue'
+import { starterTemplate } from '../../shared/inspection/starter-template'
 
 type Db = ReturnType<typeof drizzle<typeof schema>>
 
@@ -34,6 +36,7 @@ export async function seedDemo(db: Db): Promise<'seeded' | 'kept'> {
   await db.transaction(async (tx) => {
     const [shop] = await tx.insert(schema.workshops).values(demo.workshop).returning()
     if (!shop) throw new Error('workshop insert returned nothing')
+    await tx.insert(schema.checkTemplates).values({ workshopId: shop.id, ...starterTemplate })
     const staff = await tx
       .insert(schema.staffUsers)
       .values([demo.owner, demo.advisor, demo.technician].map((s) => ({ ...s, workshopId: shop.id })))
@@ -67,10 +70,13 @@ export async function seedDemo(db: Db): Promise<'seeded' | 'kept'> {
       { workshopId: shop.id, vehicleId: trailmaster.id, concern: 'Vibration through the floor above 50 mph.', status: 'booked_in' },
       { workshopId: shop.id, vehicleId: fellrunner.id, concern: 'Oil on the inside of the front wheels after green-laning.', status: 'booked_in' },
     ])
+    // Labour times, access steps, parts and pricing: all invented demo figures (see seed-catalogue.ts).
+    await seedCatalogue(tx, shop.id, { technicianId: tech?.id })
 
     const [other] = await tx.insert(schema.workshops).values(demo.otherWorkshop).returning()
     if (!other) throw new Error('second workshop insert returned nothing')
     await tx.insert(schema.staffUsers).values({ ...demo.otherOwner, workshopId: other.id })
+    await tx.insert(schema.checkTemplates).values({ workshopId: other.id, ...starterTemplate })
   })
   return 'seeded'
 }

@@ -6,7 +6,9 @@ import type { Express } from 'express'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { can, type StaffRole } from '../../shared/auth/policy'
 import type { RouteRule, RouteTable } from '../../server/lib/route-table'
+import { starterTemplate } from '../../shared/inspection/starter-template'
 import { makeTestApp } from './helpers/app'
+import { addCatalogueRecords } from './helpers/catalogue'
 import { type Browser, type Fixture, browser, makeWorkshop, signIn } from './helpers/fixtures'
 
 const t = makeTestApp()
@@ -48,21 +50,45 @@ function expected(rule: RouteRule, caller: Caller): 'allowed' | 401 | 403 | 404 
 /** Skipped for the matrix: requests that would end the caller's own session mid-test. */
 const endsSession = (rule: RouteRule) => rule.path === '/auth/sign-out'
 
+const finding = { title: 'Finding', severity: 'watch', explanation: { what: 'What', why: 'Why', ifLeft: 'If left' } }
+
 /** Bodies that pass validation, built from the caller's own workshop, so only tenancy can refuse them. */
 const validBodies: Record<string, (own: Fixture) => object> = {
   'patch /staff/:id/role': () => ({ role: 'advisor' }),
   'put /customers/:id': () => ({ name: 'Renamed', email: 'renamed@fixture.test' }),
   'put /vehicles/:id': (own) => ({ customerId: own.customer.id, registration: 'MX1', make: 'Make', model: 'Model' }),
   'put /jobs/:id': (own) => ({ vehicleId: own.vehicle.id, concern: 'Changed concern' }),
+  'put /labour-operations/:id': () => ({ code: 'MATRIX-OP', name: 'Matrix', system: 'steering', side: 'none', bookHours: '1', category: 'standard' }),
+  'post /labour-operations/:id/clock-times': () => ({ hours: '1' }),
+  'put /access-steps/:id': () => ({ code: 'MATRIX-STEP', name: 'Matrix', hours: '0.5' }),
+  'put /parts/:id': () => ({ partNumber: 'MATRIX-PART', description: 'Matrix', costMinor: 100 }),
+  'post /check-templates/:id/copy': () => ({ name: 'Copy' }),
+  'put /check-templates/:id': () => ({ name: 'Edited', definition: { checks: starterTemplate.definition.checks.slice(0, 1) } }),
+  'post /jobs/:id/findings': () => finding,
+  'put /findings/:id': () => finding,
+  'put /inspections/:id/safety': () => ({
+    standsOnFirmLevelGround: true,
+    atLiftingPoints: true,
+    wheelsChocked: true,
+    notOnJackAlone: true,
+    standCapacityKg: 3000,
+    capacityBasis: 'per-pair',
+    standCount: 2,
+    axleLoadKg: 1500,
+  }),
+  'put /inspections/:id/results': () => ({ checkCode: 'swivel-leak', position: 'left', value: { kind: 'choice', value: 'leak' } }),
+  'put /inspections/:id/notes': () => ({ notes: 'Noted' }),
 }
 
 let home: Fixture
 let away: Fixture
+let homeCatalogue: Awaited<ReturnType<typeof addCatalogueRecords>>
 const sessions = new Map<Caller, Browser>()
 
 beforeAll(async () => {
   home = await makeWorkshop(t.db, 'Matrix Home')
   away = await makeWorkshop(t.db, 'Matrix Away')
+  homeCatalogue = await addCatalogueRecords(t.db, home)
   sessions.set('anonymous', browser(t.app))
   sessions.set('technician', await signIn(t.app, home.technician.email))
   sessions.set('advisor', await signIn(t.app, home.advisor.email))
@@ -75,7 +101,7 @@ afterAll(() => t.close())
 
 function concretePath(rule: RouteRule): string {
   // Ids point at the home workshop's records; the technician is the target of staff changes.
-  const ids: Record<string, string> = { staff: home.technician.id, customers: home.customer.id, vehicles: home.vehicle.id, jobs: home.job.id }
+  const ids: Record<string, string> = { staff: home.technician.id, customers: home.customer.id, vehicles: home.vehicle.id, jobs: home.job.id, 'labour-operations': homeCatalogue.operation, 'access-steps': homeCatalogue.step, parts: homeCatalogue.part }
   const area = rule.path.split('/')[1] ?? ''
   return `/api${rule.path}`.replace(':id', ids[area] ?? '00000000-0000-4000-8000-000000000000')
 }

@@ -1,0 +1,173 @@
+import { type SQL, and, asc, count, eq, inArray, isNotNull, isNull, or, sql } from 'drizzle-orm'
+import { alias } from 'drizzle-orm/pg-core'
+import type { Database } from '../../db/client'
+import { accessStepIncludes, accessSteps, jobs, labourClockTimes, labourOperationAccessSteps, labourOperations } from '../../db/schema'
+import type { LabourSearchQuery, TimeComparisonQuery } from '../../../shared/schemas/catalogue'
+import { type Listed, rankedSearch } from './catalogue.search'
+
+export type OperationRow = typeof labourOperations.$inferSelect
+/** An operation as lists and forms need it: without the search columns. */
+export type OperationRecord = Listed<typeof labourOperations>
+export type StepRow = typeof accessSteps.$inferSelect
+/** Any Drizzle handle that can run queries: the database or a transaction. */
+export type Queryable = Pick<Database, 'select' | 'selectDistinct' | 'insert' | 'update' | 'delete' | 'execute'>
+
+export interface StepWithIncludes {
+  row: StepRow
+  includes: string[]
+}
+
+export function createLabourRepo(db: Database) {
+  /** Access step codes of each operation, in their listed order. */
+  async function stepCodesOf(tx: Queryable, workshopId: string, operationIds?: string[]): Promise<Map<string, string[]>> {
+    if (operationIds && operationIds.length === 0) return new Map()
+    const l = labourOperationAccessSteps
+    const rows = await tx
+      .select({ operationId: l.operationId, code: accessSteps.code })
+      .from(l)
+      .innerJoin(accessSteps, eq(accessSteps.id, l.accessStepId))
+      .where(and(eq(l.workshopId, workshopId), operationIds ? inArray(l.operationId, operationIds) : undefined))
+      .orderBy(asc(l.operationId), asc(l.position))
+    const out = new Map<string, string[]>()
+    for (const r of rows) out.set(r.operationId, [...(out.get(r.operationId) ?? []), r.code])
+    return out
+  }
+
+  return {
+    db,
+
+    /** A page of operations with their access step codes in order (the search brings them in the same statement). */
+    async search(workshopId: string, q: LabourSearchQuery): Promise<{ rows: OperationRecord[]; stepCodes: Map<string, string[]>; total: number }> {
+      const o = labourOperations
+      const where: SQL[] = [q.archived ? isNotNull(o.archivedAt) : isNull(o.archivedAt)]
+      if (q.vehicleGroup) where.push(sql`(cardinality(${o.vehicleGroups}) = 0 or ${q.vehicleGroup} = any(${o.vehicleGroups}))`)
+      if (q.system) where.push(eq(o.system, q.system))
+      if (q.side) where.push(q.side === 'none' ? eq(o.side, 'none') : or(eq(o.side, q.side), eq(o.side, 'none')) as SQL)
+      const filters = and(...where) as SQL
+      const offset = (q.page - 1) * q.pageSize
+
+      if (q.q) {
+        const l = labourOperationAccessSteps
+        const stepCodes = sql`(select coalesce(array_agg(s.code order by l.position), '{}') from ${l} l join ${accessSteps} s on s.id = l.access_step_id where l.operation_id = ${o.id})`
+        const found = await rankedSearch(db, { workshopId, source: 'labour', table: o, q: q.q, where: filters, sortName: sql`${o.name}`, extra: stepCodes, limit: q.pageSize, offset })
+        return { rows: found.rows, stepCodes: new Map(found.rows.map((r, i) => [r.id, (found.extras[i] as string[] | null) ?? []])), total: found.total }
+      }
+      const scoped = and(eq(o.workshopId, workshopId), filters)
+      const [rows, [total]] = await Promise.all([
+        db.select().from(o).where(scoped).orderBy(asc(o.code)).limit(q.pageSize).offset(offset),
+        db.select({ n: count() }).from(o).where(scoped),
+      ])
+      return { rows, stepCodes: await stepCodesOf(db, workshopId, rows.map((r) => r.id)), total: total?.n ?? 0 }
+    },
+
+    async findOperation(workshopId: string, id: string) {
+      const [row] = await db.select().from(labourOperations).where(and(eq(labourOperations.workshopId, workshopId), eq(labourOperations.id, id)))
+      return row
+    },
+
+    async operationsByCode(tx: Queryable, workshopId: string): Promise<Map<string, OperationRow>> {
+      const rows = await tx.select().from(labourOperations).where(eq(labourOperations.workshopId, workshopId))
+      return new Map(rows.map((r) => [r.code, r]))
+    },
+
+    stepCodesOf,
+
+    /** The workshop's whole access-step graph, each step with the codes it includes; a few hundred rows at most. */
+    async steps(tx: Queryable, workshopId: string): Promise<StepWithIncludes[]> {
+      const included = alias(accessSteps, 'included')
+      const rows = await tx
+        .select({ row: accessSteps, includes: sql<string[]>`coalesce(array_agg(${included.code} order by ${included.code}) filter (where ${included.code} is not null), '{}')` })
+        .from(accessSteps)
+        .leftJoin(accessStepIncludes, eq(accessStepIncludes.stepId, accessSteps.id))
+        .leftJoin(included, eq(included.id, accessStepIncludes.includedStepId))
+        .where(eq(accessSteps.workshopId, workshopId))
+        .groupBy(accessSteps.id)
+        .orderBy(asc(accessSteps.code))
+      return rows
+    },
+
+    async stepUsage(workshopId: string): Promise<Map<string, number>> {
+      const l = labourOperationAccessSteps
+      const rows = await db.select({ stepId: l.accessStepId, n: count() }).from(l).where(eq(l.workshopId, workshopId)).groupBy(l.accessStepId)
+      return new Map(rows.map((r) => [r.stepId, r.n]))
+    },
+
+    async findStep(workshopId: string, id: string) {
+      const [row] = await db.select().from(accessSteps).where(and(eq(accessSteps.workshopId, workshopId), eq(accessSteps.id, id)))
+      return row
+    },
+
+    /** Operations whose access steps reach any of `stepCodes`, directly or through includes. */
+    async operationsUsingSteps(tx: Queryable, workshopId: string, stepIds: string[]) {
+      if (stepIds.length === 0) return []
+      const l = labourOperationAccessSteps
+      return tx
+        .selectDistinct({ row: labourOperations })
+        .from(l)
+        .innerJoin(labourOperations, eq(labourOperations.id, l.operationId))
+        .where(and(eq(l.workshopId, workshopId), inArray(l.accessStepId, stepIds)))
+    },
+
+    /** Replaces each step's includes with the given codes' ids. */
+    async setIncludes(tx: Queryable, workshopId: string, edges: Map<string, string[]>, idOf: (code: string) => string) {
+      const stepIds = [...edges.keys()]
+      if (stepIds.length === 0) return
+      await tx.delete(accessStepIncludes).where(and(eq(accessStepIncludes.workshopId, workshopId), inArray(accessStepIncludes.stepId, stepIds)))
+      const values = [...edges].flatMap(([stepId, codes]) => codes.map((code) => ({ workshopId, stepId, includedStepId: idOf(code) })))
+      for (const chunk of chunks(values, 5000)) await tx.insert(accessStepIncludes).values(chunk)
+    },
+
+    /** Replaces each operation's access steps with the given codes' ids, in order. */
+    async setOperationSteps(tx: Queryable, workshopId: string, steps: Map<string, string[]>, idOf: (code: string) => string) {
+      const operationIds = [...steps.keys()]
+      if (operationIds.length === 0) return
+      for (const ids of chunks(operationIds, 5000)) {
+        await tx.delete(labourOperationAccessSteps).where(and(eq(labourOperationAccessSteps.workshopId, workshopId), inArray(labourOperationAccessSteps.operationId, ids)))
+      }
+      const values = [...steps].flatMap(([operationId, codes]) => codes.map((code, position) => ({ workshopId, operationId, accessStepId: idOf(code), position })))
+      for (const chunk of chunks(values, 5000)) await tx.insert(labourOperationAccessSteps).values(chunk)
+    },
+
+    async jobExists(workshopId: string, jobId: string) {
+      const [row] = await db.select({ id: jobs.id }).from(jobs).where(and(eq(jobs.workshopId, workshopId), eq(jobs.id, jobId)))
+      return Boolean(row)
+    },
+
+    async insertClockTime(values: typeof labourClockTimes.$inferInsert) {
+      const [row] = await db.insert(labourClockTimes).values(values).returning()
+      if (!row) throw new Error('clock time insert returned nothing')
+      return row
+    },
+
+    /**
+     * Book time against the median of the recorded times, per operation. percentile_cont works in
+     * double precision; the median of two-place values has at most three places, which a double
+     * holds exactly enough for the rounding to hundredths that follows.
+     */
+    async timeComparison(workshopId: string, q: TimeComparisonQuery) {
+      const c = labourClockTimes
+      const o = labourOperations
+      return db
+        .select({
+          operationId: o.id,
+          code: o.code,
+          name: o.name,
+          system: o.system,
+          bookHours: o.bookHours,
+          medianHours: sql<string>`round((percentile_cont(0.5) within group (order by ${c.hours}))::numeric, 2)::text`,
+          count: sql<number>`count(*)::int`,
+        })
+        .from(c)
+        .innerJoin(o, and(eq(o.workshopId, c.workshopId), eq(o.id, c.operationId)))
+        .where(and(eq(c.workshopId, workshopId), q.system ? eq(o.system, q.system) : undefined))
+        .groupBy(o.id)
+        .orderBy(asc(o.code))
+    },
+  }
+}
+
+export type LabourRepo = ReturnType<typeof createLabourRepo>
+
+export function* chunks<T>(items: T[], size: number): Generator<T[]> {
+  for (let i = 0; i < items.length; i += size) yield items.slice(i, i + size)
+}
