@@ -22,7 +22,7 @@ const optionalEmail = z
 
 export const CustomerInputSchema = z
   .object({
-    name: z.string().trim().min(1, 'Enter the customer’s name').max(120),
+    name: z.string({ error: 'Enter the customer’s name' }).trim().min(1, 'Enter the customer’s name').max(120, 'At most 120 characters'),
     email: optionalEmail,
     phone: optionalText(40),
     addressLines: z.array(z.string().trim().min(1).max(120)).max(5, 'At most 5 address lines').default([]),
@@ -64,16 +64,16 @@ const thisYear = new Date().getFullYear()
 export const VehicleInputSchema = z.object({
   customerId: z.uuid({ error: 'Choose the vehicle’s keeper' }),
   registration: z
-    .string()
+    .string({ error: 'Enter the registration' })
     .trim()
     .toUpperCase()
     .min(1, 'Enter the registration')
     .max(16, 'That registration is too long'),
   vin: z.union([z.literal(''), VinSchema]).transform((v) => (v === '' ? null : v)).nullable().optional(),
-  make: z.string().trim().min(1, 'Enter the make').max(60),
-  model: z.string().trim().min(1, 'Enter the model').max(80),
-  year: z.coerce.number().int().min(1886, 'Cars were not made before 1886').max(thisYear + 1, `Not later than ${thisYear + 1}`).nullable().optional(),
-  odometer: z.coerce.number().int().min(0, 'Cannot be negative').max(5_000_000).nullable().optional(),
+  make: z.string({ error: 'Enter the make' }).trim().min(1, 'Enter the make').max(60, 'At most 60 characters'),
+  model: z.string({ error: 'Enter the model' }).trim().min(1, 'Enter the model').max(80, 'At most 80 characters'),
+  year: z.coerce.number({ error: 'Enter a year like 2014' }).int('Enter a year like 2014').min(1886, 'Cars were not made before 1886').max(thisYear + 1, `Not later than ${thisYear + 1}`).nullable().optional(),
+  odometer: z.coerce.number({ error: 'Enter the reading in figures' }).int('Whole miles or kilometres only').min(0, 'Cannot be negative').max(5_000_000, 'That reading is too high').nullable().optional(),
   odometerUnit: z.enum(['mi', 'km']).default('mi'),
   vehicleGroup: optionalText(60),
 })
@@ -120,7 +120,11 @@ const isoDate = z.union([z.literal(''), z.iso.date({ error: 'Use a date like 202
 export const JobInputSchema = z
   .object({
     vehicleId: z.uuid({ error: 'Choose the vehicle' }),
-    concern: z.string().trim().min(1, 'Write down the customer’s concern in their words').max(2000),
+    concern: z
+      .string({ error: 'Write down the customer’s concern in their words' })
+      .trim()
+      .min(1, 'Write down the customer’s concern in their words')
+      .max(2000, 'At most 2000 characters'),
     status: JobStatusSchema.default('booked_in'),
     technicianId: z.uuid().nullable().optional(),
     bookedFor: isoDate,
