@@ -1,4 +1,4 @@
-const API_BASE = '/api'
+export const API_BASE = '/api'
 const DEFAULT_TIMEOUT_MS = 20_000
 
 /** Mirrors ErrorIssue in server/lib/errors.ts. */
@@ -98,11 +98,17 @@ export async function request<T>(method: string, path: string, options: RequestO
     return body as T
   }
 
-  const error = isErrorBody(body)
-    ? new ApiError(response.status, body.error.code, body.error.message, body.error.issues)
-    : unexpectedAnswer(response.status)
-  if (response.status === 401) unauthorizedHandler?.(error)
-  throw error
+  throw failedAnswer(response.status, body)
+}
+
+/**
+ * The ApiError for a non-2xx answer whose body has been read (undefined when it was not JSON);
+ * a 401 also reaches the one unauthorized handler. Shared with the upload helper in upload.ts.
+ */
+export function failedAnswer(status: number, body: unknown): ApiError {
+  const error = isErrorBody(body) ? new ApiError(status, body.error.code, body.error.message, body.error.issues) : unexpectedAnswer(status)
+  if (status === 401) unauthorizedHandler?.(error)
+  return error
 }
 
 /** A proxy's error page or the SPA's index.html is not an API answer; treat it as no answer. */
@@ -115,7 +121,7 @@ async function readJson(response: Response): Promise<unknown> {
   }
 }
 
-function unexpectedAnswer(status: number): ApiError {
+export function unexpectedAnswer(status: number): ApiError {
   // A 5xx page that is not ours comes from a proxy or gateway standing in for a server that is down.
   const message =
     status >= 500

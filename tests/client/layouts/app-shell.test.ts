@@ -1,27 +1,34 @@
 // @vitest-environment happy-dom
 import { flushPromises, mount } from '@vue/test-utils'
-import { createPinia } from 'pinia'
+import { createPinia, setActivePinia } from 'pinia'
 import { afterEach, describe, expect, it, vi } from 'vitest'
 import { createMemoryHistory, createRouter } from 'vue-router'
+import { getMe } from '@/api/auth'
 import { getHealth, getReady } from '@/api/system'
 import App from '@/App.vue'
 import { installGuards, routes } from '@/router'
+import { staffPrincipal } from '../support/principals'
 import { setViewport } from '../support/viewport'
 import { createTestVuetify } from '../support/vuetify'
 
 vi.mock('@/api/system', () => ({ getHealth: vi.fn(), getReady: vi.fn() }))
+vi.mock('@/api/auth', () => ({ getMe: vi.fn(), requestSignInLink: vi.fn(), verifySignInLink: vi.fn(), signOut: vi.fn() }))
 
 let unmount: (() => void) | undefined
 
 async function mountAt(path: string) {
   vi.mocked(getHealth).mockResolvedValue({ status: 'ok', uptimeSeconds: 5, version: '0.1.0' })
   vi.mocked(getReady).mockResolvedValue({ status: 'ready', database: 'ok' })
+  // The staff pages need someone signed in; the guards ask the store before the app is mounted.
+  vi.mocked(getMe).mockResolvedValue(staffPrincipal('owner'))
+  const pinia = createPinia()
+  setActivePinia(pinia)
   const router = createRouter({ history: createMemoryHistory(), routes })
   installGuards(router)
   await router.push(path)
   const wrapper = mount(App, {
     attachTo: document.body,
-    global: { plugins: [createTestVuetify(), createPinia(), router] },
+    global: { plugins: [createTestVuetify(), pinia, router] },
   })
   unmount = () => wrapper.unmount()
   await router.isReady()
