@@ -5,7 +5,10 @@ import type { CustomerInput, CustomerListQuery } from '../../../shared/schemas/r
 import { likePattern } from '../../lib/db-errors'
 
 export function createCustomersRepo(db: Database) {
-  const vehicleCount = sql<number>`(select count(*)::int from ${vehicles} where ${vehicles.customerId} = ${customers.id} and ${vehicles.archivedAt} is null)`
+  // Qualified by hand: in a one-table select drizzle writes bare column names, and inside this subquery a
+  // bare "id" would be the vehicle's own id, so every customer counted 0 vehicles.
+  const col = (table: typeof vehicles | typeof customers, name: string) => sql`${table}.${sql.identifier(name)}`
+  const vehicleCount = sql<number>`(select count(*)::int from ${vehicles} where ${col(vehicles, 'customer_id')} = ${col(customers, 'id')} and ${col(vehicles, 'archived_at')} is null)`
   return {
     async list(workshopId: string, q: CustomerListQuery) {
       const where: SQL[] = [eq(customers.workshopId, workshopId)]
