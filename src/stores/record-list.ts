@@ -126,3 +126,100 @@ export async function attempt(
     busy.value = false
   }
 }
+
+export interface RecordApi<T, I> {
+  get(id: string): Promise<T>
+  create(input: I): Promise<T>
+  update(id: string, input: I): Promise<T>
+  remove(id: string): Promise<void>
+  archive?(id: string): Promise<T>
+  restore?(id: string): Promise<T>
+  /** For pickers: the first matches for what was typed. */
+  search?(q: string): Promise<T[]>
+}
+
+/**
+ * The record a detail page shows, and saving, archiving and deleting it, for any workshop record.
+ * `listItems` is the table's rows, kept in step so a change shows there without a reload.
+ */
+export function useRecordDetail<T extends { id: string }, I>(listItems: Ref<T[]>, api: RecordApi<T, I>) {
+  const current = ref<T | null>(null) as Ref<T | null>
+  const isLoadingCurrent = ref(false)
+  const currentError = ref<ApiError | null>(null)
+  const isSaving = ref(false)
+  /** A 422 here carries the issues a form shows on its fields. */
+  const saveError = ref<ApiError | null>(null)
+  const isRemoving = ref(false)
+  /** A 409 `in_use` here carries the message the delete dialog shows. */
+  const removeError = ref<ApiError | null>(null)
+  /** Matches for a picker, kept apart from the list so searching there leaves the table alone. */
+  const matches = ref<T[]>([]) as Ref<T[]>
+  const isSearching = ref(false)
+  const searchError = ref<ApiError | null>(null)
+
+  function show(record: T): T {
+    current.value = record
+    listItems.value = listItems.value.map((r) => (r.id === record.id ? record : r))
+    return record
+  }
+
+  async function get(id: string): Promise<T | null> {
+    if (current.value?.id !== id) current.value = null
+    // The page says "We can't find that …" itself.
+    const ok = await attempt(isLoadingCurrent, currentError, async () => void show(await api.get(id)), [404])
+    return ok ? current.value : null
+  }
+
+  async function saving(call: () => Promise<T>): Promise<T | null> {
+    let saved: T | null = null
+    await attempt(isSaving, saveError, async () => {
+      saved = show(await call())
+    })
+    return saved
+  }
+
+  /** Creates when there is no id; returns the saved record, or null with `saveError` set. */
+  const save = (input: I, id?: string) => saving(() => (id ? api.update(id, input) : api.create(input)))
+
+  async function remove(id: string): Promise<boolean> {
+    const ok = await attempt(isRemoving, removeError, () => api.remove(id))
+    if (ok) {
+      if (current.value?.id === id) current.value = null
+      listItems.value = listItems.value.filter((r) => r.id !== id)
+    }
+    return ok
+  }
+
+  async function lookup(q: string): Promise<void> {
+    const search = api.search
+    if (!search) return
+    await attempt(isSearching, searchError, async () => {
+      matches.value = await search(q.trim())
+    })
+  }
+
+  function clearErrors(): void {
+    saveError.value = null
+    removeError.value = null
+  }
+
+  const { archive, restore } = api
+  return {
+    current,
+    isLoadingCurrent,
+    currentError,
+    isSaving,
+    saveError,
+    isRemoving,
+    removeError,
+    matches,
+    isSearching,
+    get,
+    save,
+    archive: (id: string) => (archive ? saving(() => archive(id)) : Promise.resolve(null)),
+    restore: (id: string) => (restore ? saving(() => restore(id)) : Promise.resolve(null)),
+    remove,
+    lookup,
+    clearErrors,
+  }
+}
