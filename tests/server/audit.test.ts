@@ -48,6 +48,18 @@ describe('audit log', () => {
     expect(res.body.total).toBe(0)
   })
 
+  it('filters by whole days in the workshop’s time zone', async () => {
+    const f = await makeWorkshop(t.db)
+    const owner = await signIn(t.app, f.owner.email)
+    // 23:30 UTC on 1 July is 00:30 on 2 July in London (British Summer Time, UTC+1).
+    await t.db.insert(auditEvents).values([
+      { workshopId: f.workshop.id, actorKind: 'system', action: 'settings.changed', createdAt: new Date('2026-07-01T23:30:00Z') },
+      { workshopId: f.workshop.id, actorKind: 'system', action: 'settings.changed', createdAt: new Date('2026-07-01T22:30:00Z') },
+    ])
+    const day = await owner.get('/api/audit-events?action=settings.changed&from=2026-07-02&to=2026-07-02').expect(200)
+    expect(day.body.items.map((e: { createdAt: string }) => e.createdAt)).toEqual(['2026-07-01T23:30:00.000Z'])
+  })
+
   it('records a reused link as a failed sign-in with its reason', async () => {
     const f = await makeWorkshop(t.db)
     const owner = await signIn(t.app, f.owner.email)

@@ -1,16 +1,17 @@
-import { type SQL, and, asc, count, desc, eq, gte, lt } from 'drizzle-orm'
+import { type SQL, and, asc, count, desc, eq, sql } from 'drizzle-orm'
 import type { Database } from '../../db/client'
 import { auditEvents } from '../../db/schema'
 import type { AuditListQuery } from '../../../shared/schemas/audit'
 
 export function createAuditRepo(db: Database) {
   return {
-    async list(workshopId: string, q: AuditListQuery) {
+    /** `from` and `to` are whole days in the workshop's own time zone, as the log shows its times. */
+    async list(workshopId: string, timezone: string, q: AuditListQuery) {
       const where: SQL[] = [eq(auditEvents.workshopId, workshopId)]
       if (q.action) where.push(eq(auditEvents.action, q.action))
       if (q.actorId) where.push(eq(auditEvents.actorId, q.actorId))
-      if (q.from) where.push(gte(auditEvents.createdAt, new Date(`${q.from}T00:00:00Z`)))
-      if (q.to) where.push(lt(auditEvents.createdAt, new Date(Date.parse(`${q.to}T00:00:00Z`) + 86_400_000)))
+      if (q.from) where.push(sql`${auditEvents.createdAt} >= (${q.from}::date::timestamp at time zone ${timezone})`)
+      if (q.to) where.push(sql`${auditEvents.createdAt} < ((${q.to}::date + 1)::timestamp at time zone ${timezone})`)
       const column = q.sortBy === 'action' ? auditEvents.action : auditEvents.createdAt
       const order = q.sortDesc === false ? asc(column) : desc(column)
       const [items, [total]] = await Promise.all([

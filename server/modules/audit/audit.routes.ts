@@ -11,7 +11,8 @@ export function auditRoutes(table: RouteTable, db: Database) {
   const g = table.group('/audit-events')
   g.get('', staffWith('audit:read'), validate({ query: AuditListQuerySchema }), async (req, res) => {
     const q = req.query as unknown as AuditListQuery
-    const { items, total } = await repo.list(staffOf(req).workshop.id, q)
+    const me = staffOf(req)
+    const { items, total } = await repo.list(me.workshop.id, me.workshop.timezone, q)
     const page: Page<AuditEvent> = {
       items: items.map((e) => ({
         id: e.id.toString(),
