@@ -1,6 +1,7 @@
 import { sql } from 'drizzle-orm'
-import { check, pgTable, text } from 'drizzle-orm/pg-core'
+import { check, jsonb, pgTable, text } from 'drizzle-orm/pg-core'
 import { id, timestamps } from './columns'
+import { DEFAULT_ESTIMATE_DEFAULTS, type EstimateDefaults } from '../../../shared/schemas/estimates'
 
 export const workshops = pgTable(
   'workshops',
@@ -14,6 +15,8 @@ export const workshops = pgTable(
     vatNumber: text(),
     currency: text().notNull().default('GBP'),
     timezone: text().notNull().default('Europe/London'),
+    /** What a new estimate starts with: tax basis and rounding, discount, deposit policy, days to expiry. */
+    estimateDefaults: jsonb().$type<EstimateDefaults>().notNull().default(DEFAULT_ESTIMATE_DEFAULTS),
     ...timestamps,
   },
   (t) => [
