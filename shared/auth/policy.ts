@@ -19,6 +19,7 @@ export const permissions = [
   'jobs:write',
   'inspections:write',
   'findings:write',
+  'estimates:read',
   'estimates:write',
   'catalogue:manage',
 ] as const
@@ -34,6 +35,7 @@ const advisorPermissions: Permission[] = [
   'jobs:read',
   'jobs:write',
   'findings:write',
+  'estimates:read',
   'estimates:write',
 ]
 
