@@ -12,7 +12,7 @@ export interface AuditEntry {
 }
 
 /** Who did it comes from the signed-in user unless the entry says otherwise; where from comes from the request. */
-export async function recordAudit(db: Database, req: Request | null, entry: AuditEntry): Promise<void> {
+export async function recordAudit(db: Pick<Database, 'insert'>, req: Request | null, entry: AuditEntry): Promise<void> {
   const user = req?.user
   const actor = entry.actor ?? (user ? { kind: user.kind, id: user.id, name: user.name } : { kind: 'anonymous' as const })
   await db.insert(auditEvents).values({

@@ -12,6 +12,10 @@ export const auditActions = [
   'staff.deactivated',
   'staff.reactivated',
   'settings.changed',
+  'estimate.created',
+  'estimate.sent',
+  'estimate.withdrawn',
+  'estimate.email_resent',
 ] as const
 export const AuditActionSchema = z.enum(auditActions)
 export type AuditAction = z.infer<typeof AuditActionSchema>

@@ -14,6 +14,10 @@ export const auditActionLabels = {
   'staff.deactivated': 'Access switched off',
   'staff.reactivated': 'Access switched back on',
   'settings.changed': 'Workshop details changed',
+  'estimate.created': 'Estimate started',
+  'estimate.sent': 'Estimate sent to the customer',
+  'estimate.withdrawn': 'Estimate withdrawn',
+  'estimate.email_resent': 'Estimate e-mail sent again',
 } satisfies Record<AuditAction, string>
 
 export const auditActionOptions = auditActions.map((value) => ({ value, title: auditActionLabels[value] }))
