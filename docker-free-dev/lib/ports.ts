@@ -19,7 +19,7 @@ export async function assertPortFree(port: number, what: string, envName: string
 
 export class PortInUseError extends Error {}
 
-export async function waitForPort(port: number, timeoutMs = 20_000): Promise<void> {
+export async function waitForPort(port: number, timeoutMs = 90_000): Promise<void> {
   const deadline = Date.now() + timeoutMs
   while (Date.now() < deadline) {
     const open = await new Promise<boolean>((resolve) => {

@@ -299,6 +299,8 @@ export const EstimateDetailSchema = z.object({
   emails: z.array(EstimateEmailSchema),
   findings: z.array(FindingChoiceSchema),
   withdrawnAt: z.string().nullable(),
+  /** Things the advisor should know about the last change ("the suggested part X is not in your parts list"). */
+  notices: z.array(z.string()).default([]),
   createdAt: z.string(),
   updatedAt: z.string(),
 })

@@ -1,4 +1,4 @@
-import { type SQL, and, asc, count, eq, inArray, isNotNull, isNull, or, sql } from 'drizzle-orm'
+import { type SQL, and, asc, count, eq, getTableColumns, inArray, isNotNull, isNull, or, sql } from 'drizzle-orm'
 import { alias } from 'drizzle-orm/pg-core'
 import type { Database } from '../../db/client'
 import { accessStepIncludes, accessSteps, jobs, labourClockTimes, labourOperationAccessSteps, labourOperations } from '../../db/schema'
@@ -35,6 +35,14 @@ export function createLabourRepo(db: Database) {
 
   return {
     db,
+
+    async operationsByCodes(workshopId: string, codes: string[]): Promise<OperationRecord[]> {
+      const { searchText: _s, searchVector: _v, lookupKey: _k, ...columns } = getTableColumns(labourOperations)
+      return db
+        .select(columns)
+        .from(labourOperations)
+        .where(and(eq(labourOperations.workshopId, workshopId), inArray(labourOperations.code, codes), isNull(labourOperations.archivedAt)))
+    },
 
     /** A page of operations with their access step codes in order (the search brings them in the same statement). */
     async search(workshopId: string, q: LabourSearchQuery): Promise<{ rows: OperationRecord[]; stepCodes: Map<string, string[]>; total: number }> {

@@ -299,6 +299,12 @@ export function createLabourService(deps: { repo: LabourRepo; pricing: PricingRe
       return { items: await present(workshopId, rows, stepCodes), total, page: q.page, pageSize: q.pageSize }
     },
     get: getOperation,
+    /** Live (not archived) operations with these codes, priced; unknown codes are simply absent. */
+    async byCodes(workshopId: string, codes: string[]): Promise<LabourOperation[]> {
+      if (codes.length === 0) return []
+      const rows = await repo.operationsByCodes(workshopId, codes)
+      return present(workshopId, rows)
+    },
     create: (workshopId: string, input: LabourOperationInput) => saveOperation(workshopId, null, input),
     update: (workshopId: string, id: string, input: LabourOperationInput) => saveOperation(workshopId, id, input),
     async setArchived(workshopId: string, id: string, archived: boolean) {

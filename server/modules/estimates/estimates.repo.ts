@@ -1,0 +1,230 @@
+import { type SQL, and, asc, desc, eq, inArray, like, or, sql } from 'drizzle-orm'
+import type { Database } from '../../db/client'
+import {
+  customers,
+  depositPayments,
+  estimateConfirmations,
+  estimateDecisions,
+  estimates,
+  estimateVersions,
+  findings,
+  jobs,
+  outboundEmails,
+  parts,
+  photos,
+  vehicles,
+  workshops,
+} from '../../db/schema'
+import type { EstimateListQuery, EstimateStatus } from '../../../shared/schemas/estimates'
+import { likePattern } from '../../lib/db-errors'
+
+export type Tx = Parameters<Parameters<Database['transaction']>[0]>[0]
+export type Queryable = Database | Tx
+
+/**
+ * An estimate's status from its latest version, in one SQL expression so lists can filter and
+ * sort on it. Expiry is a date in the workshop's time zone: the last day the customer can decide.
+ */
+const statusSql = sql<EstimateStatus>`case
+  when e.withdrawn_at is not null then 'withdrawn'
+  when v.id is null then 'draft'
+  when dp.status in ('paid', 'refunded') then 'deposit_paid'
+  when v.confirmed_at is not null then 'confirmed'
+  when v.expires_on < (now() at time zone w.timezone)::date then 'expired'
+  when v.opened_at is not null then 'opened'
+  else 'sent' end`
+
+export function createEstimatesRepo(db: Database) {
+  return {
+    db,
+
+    /** The next number in the workshop's sequence. The counter row stays locked until the caller's transaction ends, so numbers are consecutive and a rolled-back creation leaves no gap. */
+    async nextNumber(tx: Tx, workshopId: string): Promise<number> {
+      const result = await tx.execute<{ last_number: number }>(sql`
+        insert into estimate_counters (workshop_id, last_number) values (${workshopId}, 1)
+        on conflict (workshop_id) do update set last_number = estimate_counters.last_number + 1
+        returning last_number`)
+      const n = result.rows[0]?.last_number
+      if (n === undefined) throw new Error('estimate counter returned nothing')
+      return Number(n)
+    },
+
+    async list(workshopId: string, q: EstimateListQuery) {
+      const where: SQL[] = [sql`e.workshop_id = ${workshopId}`]
+      if (q.jobId) where.push(sql`e.job_id = ${q.jobId}`)
+      if (q.q) {
+        const p = likePattern(q.q)
+        const plate = likePattern(q.q.replace(/\s+/g, ''))
+        const digits = q.q.replace(/^e-?0*/i, '')
+        const byNumber = /^\d{1,9}$/.test(digits) ? sql` or e.number = ${Number(digits)}` : sql``
+        where.push(sql`(c.name ilike ${p} or replace(ve.registration, ' ', '') ilike ${plate}${byNumber})`)
+      }
+      const order = {
+        number: sql`e.number`,
+        updatedAt: sql`greatest(e.updated_at, v.sent_at, v.opened_at, v.confirmed_at, dp.updated_at)`,
+        customerName: sql`c.name`,
+        proposedGross: sql`v.proposed_gross`,
+      }[q.sortBy ?? 'updatedAt']
+      const descending = q.sortDesc ?? (q.sortBy === undefined || q.sortBy === 'number' || q.sortBy === 'updatedAt')
+      const statusFilter = q.status ? sql`where status = ${q.status}` : sql``
+      const rows = await db.execute<{
+        id: string
+        number: number
+        status: EstimateStatus
+        job_id: string
+        customer_name: string
+        registration: string
+        currency: string
+        draft: unknown
+        proposed_gross: number | null
+        approved_gross: number | null
+        deposit_minor: number | null
+        has_unsent_changes: boolean
+        latest_version: number | null
+        updated_at: string
+        total: string
+      }>(sql`
+        with listed as (
+          select e.id, e.number, ${statusSql} as status, e.job_id, c.name as customer_name, ve.registration, w.currency, e.draft,
+            v.proposed_gross, ec.approved_gross, ec.deposit_minor,
+            (e.sent_revision is null or e.sent_revision <> e.revision) and e.withdrawn_at is null as has_unsent_changes,
+            v.version as latest_version,
+            greatest(e.updated_at, v.sent_at, v.opened_at, v.confirmed_at, dp.updated_at) as updated_at,
+            ${order} as sort_key
+          from estimates e
+          join workshops w on w.id = e.workshop_id
+          join jobs j on j.id = e.job_id
+          join vehicles ve on ve.id = j.vehicle_id
+          join customers c on c.id = ve.customer_id
+          left join lateral (select * from estimate_versions x where x.estimate_id = e.id order by x.version desc limit 1) v on true
+          left join estimate_confirmations ec on ec.version_id = v.id
+          left join deposit_payments dp on dp.confirmation_id = ec.id
+          where ${sql.join(where, sql` and `)}
+        )
+        select *, count(*) over () as total from listed ${statusFilter}
+        order by sort_key ${descending ? sql`desc nulls last` : sql`asc nulls first`}, number desc
+        limit ${q.pageSize} offset ${(q.page - 1) * q.pageSize}`)
+      return { rows: rows.rows, total: Number(rows.rows[0]?.total ?? 0) }
+    },
+
+    async status(q: Queryable, workshopId: string, id: string): Promise<EstimateStatus | undefined> {
+      const result = await q.execute<{ status: EstimateStatus }>(sql`
+        select ${statusSql} as status
+        from estimates e
+        join workshops w on w.id = e.workshop_id
+        left join lateral (select * from estimate_versions x where x.estimate_id = e.id order by x.version desc limit 1) v on true
+        left join estimate_confirmations ec on ec.version_id = v.id
+        left join deposit_payments dp on dp.confirmation_id = ec.id
+        where e.workshop_id = ${workshopId} and e.id = ${id}`)
+      return result.rows[0]?.status
+    },
+
+    async find(q: Queryable, workshopId: string, id: string, lock = false) {
+      const query = q
+        .select({ estimate: estimates, job: jobs, vehicle: vehicles, customer: customers, workshop: workshops })
+        .from(estimates)
+        .innerJoin(jobs, eq(jobs.id, estimates.jobId))
+        .innerJoin(vehicles, eq(vehicles.id, jobs.vehicleId))
+        .innerJoin(customers, eq(customers.id, vehicles.customerId))
+        .innerJoin(workshops, eq(workshops.id, estimates.workshopId))
+        .where(and(eq(estimates.workshopId, workshopId), eq(estimates.id, id)))
+      const [row] = lock ? await query.for('update', { of: estimates }) : await query
+      return row
+    },
+
+    async findJob(q: Queryable, workshopId: string, jobId: string) {
+      const [row] = await q
+        .select({ job: jobs, vehicle: vehicles, customer: customers, workshop: workshops })
+        .from(jobs)
+        .innerJoin(vehicles, eq(vehicles.id, jobs.vehicleId))
+        .innerJoin(customers, eq(customers.id, vehicles.customerId))
+        .innerJoin(workshops, eq(workshops.id, jobs.workshopId))
+        .where(and(eq(jobs.workshopId, workshopId), eq(jobs.id, jobId)))
+      return row
+    },
+
+    async openEstimateForJob(q: Queryable, workshopId: string, jobId: string) {
+      const [row] = await q
+        .select({ id: estimates.id, number: estimates.number })
+        .from(estimates)
+        .where(and(eq(estimates.workshopId, workshopId), eq(estimates.jobId, jobId), sql`${estimates.withdrawnAt} is null`))
+      return row
+    },
+
+    async versions(q: Queryable, workshopId: string, estimateId: string) {
+      return q
+        .select({
+          version: estimateVersions,
+          confirmation: estimateConfirmations,
+          deposit: depositPayments,
+        })
+        .from(estimateVersions)
+        .leftJoin(estimateConfirmations, eq(estimateConfirmations.versionId, estimateVersions.id))
+        .leftJoin(depositPayments, eq(depositPayments.confirmationId, estimateConfirmations.id))
+        .where(and(eq(estimateVersions.workshopId, workshopId), eq(estimateVersions.estimateId, estimateId)))
+        .orderBy(asc(estimateVersions.version))
+    },
+
+    async decisions(q: Queryable, workshopId: string, versionId: string) {
+      return q
+        .select()
+        .from(estimateDecisions)
+        .where(and(eq(estimateDecisions.workshopId, workshopId), eq(estimateDecisions.versionId, versionId)))
+    },
+
+    async emails(q: Queryable, workshopId: string, estimateId: string) {
+      return q
+        .select()
+        .from(outboundEmails)
+        .where(and(eq(outboundEmails.workshopId, workshopId), eq(outboundEmails.estimateId, estimateId)))
+        .orderBy(desc(outboundEmails.queuedAt))
+        .limit(50)
+    },
+
+    async jobFindings(q: Queryable, workshopId: string, jobId: string) {
+      return q
+        .select()
+        .from(findings)
+        .where(and(eq(findings.workshopId, workshopId), eq(findings.jobId, jobId)))
+        .orderBy(asc(findings.createdAt))
+    },
+
+    async findingsByIds(q: Queryable, workshopId: string, ids: string[]) {
+      if (ids.length === 0) return []
+      return q
+        .select()
+        .from(findings)
+        .where(and(eq(findings.workshopId, workshopId), inArray(findings.id, ids)))
+    },
+
+    async photoIdsOf(q: Queryable, workshopId: string, findingIds: string[]) {
+      if (findingIds.length === 0) return new Map<string, string[]>()
+      const rows = await q
+        .select({ id: photos.id, findingId: photos.findingId })
+        .from(photos)
+        .where(and(eq(photos.workshopId, workshopId), inArray(photos.findingId, findingIds)))
+        .orderBy(asc(photos.createdAt))
+      const out = new Map<string, string[]>()
+      for (const r of rows) out.set(r.findingId, [...(out.get(r.findingId) ?? []), r.id])
+      return out
+    },
+
+    /** Parts whose number is the code, or starts with `code-` (a code per vehicle group: SWV-SEAL-KIT-C). */
+    async partsForCodes(q: Queryable, workshopId: string, codes: string[]) {
+      if (codes.length === 0) return []
+      return q
+        .select({ partNumber: parts.partNumber, description: parts.description, costMinor: parts.costMinor, sellPriceMinor: parts.sellPriceMinor, taxRate: parts.taxRate })
+        .from(parts)
+        .where(
+          and(
+            eq(parts.workshopId, workshopId),
+            sql`${parts.archivedAt} is null`,
+            or(inArray(parts.partNumber, codes), ...codes.map((c) => like(parts.partNumber, `${c.replace(/[\\%_]/g, '\\$&')}-%`))),
+          ),
+        )
+        .orderBy(asc(parts.partNumber))
+    },
+  }
+}
+
+export type EstimatesRepo = ReturnType<typeof createEstimatesRepo>
