@@ -9,6 +9,7 @@ import { drizzle } from 'drizzle-orm/node-postgres'
 import { runMigrations } from '../server/db/migrate'
 import * as schema from '../server/db/schema'
 import { seedDemo } from '../server/db/seed'
+import { LOCAL_STRIPE_SECRET_KEY, LOCAL_STRIPE_WEBHOOK_SECRET } from '../server/env'
 import { type Child, bin, projectRoot, startChild, startMaildev, startPaymentsFake } from './lib/children'
 import { PortInUseError, assertPortFree, waitForPort } from './lib/ports'
 import { type PostgresHandle, ensureDatabase, startPostgres } from './lib/postgres'
@@ -61,7 +62,7 @@ async function main() {
 
   children.push(startMaildev(ports.smtp, ports.mailWeb, true))
   const paymentsUrl = `http://127.0.0.1:${ports.payments}`
-  children.push(startPaymentsFake({ port: ports.payments, webhookUrl: `http://127.0.0.1:${ports.app}/api/payments/webhook`, webhookSecret: 'whsec_local_payments_fake' }))
+  children.push(startPaymentsFake({ port: ports.payments, webhookUrl: `http://127.0.0.1:${ports.app}/api/payments/webhook`, webhookSecret: LOCAL_STRIPE_WEBHOOK_SECRET }))
 
   const appEnv = {
     NODE_ENV: dev ? 'development' : 'production',
@@ -70,6 +71,9 @@ async function main() {
     SMTP_HOST: '127.0.0.1',
     SMTP_PORT: String(ports.smtp),
     PAYMENTS_FAKE_URL: paymentsUrl,
+    // `npm start` runs the app as in production, where these have no defaults; here they are the fake's.
+    STRIPE_SECRET_KEY: LOCAL_STRIPE_SECRET_KEY,
+    STRIPE_WEBHOOK_SECRET: LOCAL_STRIPE_WEBHOOK_SECRET,
     PUBLIC_BASE_URL: process.env.PUBLIC_BASE_URL ?? `http://127.0.0.1:${dev ? ports.vite : ports.app}`,
     CLIENT_DIST: dev ? '' : path.join(projectRoot, 'dist'),
   }

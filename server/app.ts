@@ -4,12 +4,14 @@ import express from 'express'
 import helmet from 'helmet'
 import { pinoHttp } from 'pino-http'
 import type pg from 'pg'
+import type Stripe from 'stripe'
 import type { Logger } from 'pino'
 import { Passport } from 'passport'
 import type { Database } from './db/client'
 import type { Env } from './env'
 import { recordAudit } from './lib/audit'
 import { type Mailer, createMailer } from './lib/mailer'
+import type { EmailOutbox } from './modules/email/outbox'
 import { createAuthLimits } from './lib/rate-limits'
 import { RouteTable } from './lib/route-table'
 import { absoluteLifetime, createSessionMiddleware, sessionCookieName } from './lib/session'
@@ -22,6 +24,10 @@ import { createAuthRepo } from './modules/auth/auth.repo'
 import { authRoutes, configureMagicLink, inviteLinkHandler } from './modules/auth/auth.routes'
 import { createAuthService } from './modules/auth/auth.service'
 import { portalRoutes } from './modules/portal/portal.routes'
+import { createRenewLimits, noReferrer, portalEstimateRoutes } from './modules/portal/portal-estimates.routes'
+import { createPortalRepo } from './modules/portal/portal.repo'
+import { createPortalService } from './modules/portal/portal.service'
+import { estimateQuestionRoutes } from './modules/portal/questions.routes'
 import { createStaffRepo } from './modules/staff/staff.repo'
 import { staffRoutes } from './modules/staff/staff.routes'
 import { createStaffService } from './modules/staff/staff.service'
@@ -31,7 +37,18 @@ import { createWorkshopRepo } from './modules/workshop/workshop.repo'
 import { workshopRoutes } from './modules/workshop/workshop.routes'
 import { createWorkshopService } from './modules/workshop/workshop.service'
 import { recordRoutes } from './lib/record-routes'
+import { createStripeClient } from './lib/stripe'
+import { createDepositsService } from './modules/payments/deposits.service'
+import { paymentsRoutes, paymentsWebhookRoutes } from './modules/payments/payments.routes'
 import { type FileStorage, createLocalStorage } from './lib/storage'
+import { type LiveHub, createLiveHub } from './lib/live-hub'
+import { liveRoutes } from './modules/live/live.routes'
+import { createEstimatesRepo } from './modules/estimates/estimates.repo'
+import { estimatesRoutes } from './modules/estimates/estimates.routes'
+import { createEstimatesService } from './modules/estimates/estimates.service'
+import { createLabourRepo } from './modules/catalogue/labour.repo'
+import { createLabourService } from './modules/catalogue/labour.service'
+import { createPricingRepo } from './modules/catalogue/pricing.repo'
 import { createInspectionsRepo } from './modules/inspections/inspections.repo'
 import { inspectionsRoutes } from './modules/inspections/inspections.routes'
 import { createInspectionsService } from './modules/inspections/inspections.service'
@@ -52,6 +69,12 @@ export interface AppDeps {
   version?: string
   mailer?: Mailer
   storage?: FileStorage
+  /** Built from STRIPE_SECRET_KEY and STRIPE_API_BASE when not given. */
+  stripe?: Stripe
+  /** Whoever passes one closes it; one made here connects on its first subscriber and is on app.locals.liveHub. */
+  liveHub?: LiveHub
+  /** Needs a started job queue, so the process (server/index.ts, tests) builds it and stops it. */
+  outbox: EmailOutbox
 }
 
 /** Builds the Express app without listening, so tests drive it with supertest. */
@@ -102,6 +125,8 @@ export function createApp(deps: AppDeps): express.Express {
   const table = new RouteTable()
   app.locals.routeTable = table
   app.set('session cookie name', sessionCookieName(env))
+  const liveHub = deps.liveHub ?? createLiveHub({ connectionString: env.DATABASE_URL, logger })
+  app.locals.liveHub = liveHub
 
   const authRepo = createAuthRepo(db)
   const authService = createAuthService({ repo: authRepo, db, mailer, logger, env })
@@ -113,7 +138,21 @@ export function createApp(deps: AppDeps): express.Express {
     authRepo.loadPrincipal(stored.kind, stored.id).then((p: Principal | undefined) => done(null, p ?? false), done)
   })
 
+  const deposits = createDepositsService({ db, stripe: deps.stripe ?? createStripeClient({ secretKey: env.STRIPE_SECRET_KEY, apiBase: env.STRIPE_API_BASE }), env, logger, outbox: deps.outbox })
+  const storage = deps.storage ?? createLocalStorage(env.UPLOAD_DIR)
+  const portalService = createPortalService({
+    repo: createPortalRepo(db),
+    outbox: deps.outbox,
+    deposits,
+    storage,
+    env,
+    logger,
+    loadCustomer: (id) => authRepo.loadPrincipal('customer', id),
+  })
   const api = express.Router()
+  // Before the JSON parser, sessions and the CSRF check: the webhook is verified on its raw bytes.
+  const paymentsWebhook = paymentsWebhookRoutes(table, deposits)
+  api.use(paymentsWebhook.base, paymentsWebhook.router)
   api.use(express.json({ limit: '1mb' }))
   api.use(createSessionMiddleware(env, pool))
   api.use(passport.session())
@@ -131,6 +170,8 @@ export function createApp(deps: AppDeps): express.Express {
     workshopRoutes(table, createWorkshopService({ repo: createWorkshopRepo(db), db })),
     auditRoutes(table, db),
     portalRoutes(table, db),
+    portalEstimateRoutes(table, { service: portalService, db, limits: createRenewLimits(env, pool) }),
+    estimateQuestionRoutes(table, portalService),
     catalogueRoutes(table, db),
     recordRoutes(table, '/customers', {
       read: 'customers:read',
@@ -146,8 +187,11 @@ export function createApp(deps: AppDeps): express.Express {
       listQuery: VehicleListQuerySchema,
       service: createVehiclesService(createVehiclesRepo(db)),
     }),
-    ...inspectionsRoutes(table, createInspectionsService({ repo: createInspectionsRepo(db), storage: deps.storage ?? createLocalStorage(env.UPLOAD_DIR) })),
+    ...inspectionsRoutes(table, createInspectionsService({ repo: createInspectionsRepo(db), storage })),
     recordRoutes(table, '/jobs', { read: 'jobs:read', write: 'jobs:write', input: JobInputSchema, listQuery: JobListQuerySchema, service: createJobsService(createJobsRepo(db)) }),
+    liveRoutes(table, liveHub),
+    paymentsRoutes(table, deposits),
+    ...estimatesRoutes(table, { db, service: createEstimatesService({ repo: createEstimatesRepo(db), labour: createLabourService({ repo: createLabourRepo(db), pricing: createPricingRepo(db) }), pricing: createPricingRepo(db), outbox: deps.outbox, env, logger }) }),
   ]
   for (const g of groups) api.use(g.base || '/', g.router)
   api.use(apiNotFound)
@@ -156,6 +200,8 @@ export function createApp(deps: AppDeps): express.Express {
   const dist = env.CLIENT_DIST ? path.resolve(env.CLIENT_DIST) : ''
   if (dist && fs.existsSync(path.join(dist, 'index.html'))) {
     app.use(express.static(dist, { index: false, maxAge: '1h', setHeaders: immutableAssets }))
+    // The estimate link's page holds its token in the address until the page has read it.
+    app.get('/portal/open', noReferrer)
     // Client-side routes all answer with the app shell.
     app.get(/^(?!\/api\/).*/, (_req, res) => {
       res.set('Cache-Control', 'no-cache').sendFile(path.join(dist, 'index.html'))

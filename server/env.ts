@@ -6,6 +6,10 @@ const booleanish = z
   .enum(['true', 'false', '1', '0', 'yes', 'no'])
   .transform((v) => v === 'true' || v === '1' || v === 'yes')
 
+/** What docker-free-dev/start.ts gives the payments fake; any sk_test_ key is an account of its own there. */
+export const LOCAL_STRIPE_SECRET_KEY = 'sk_test_local_payments_fake'
+export const LOCAL_STRIPE_WEBHOOK_SECRET = 'whsec_local_payments_fake'
+
 export const EnvSchema = z
   .object({
     NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),
@@ -39,11 +43,22 @@ export const EnvSchema = z
     UPLOAD_DIR: z.string().default('.data/uploads'),
     /** Set to false only to exercise a workload without limits. */
     RATE_LIMITS: booleanish.default(true),
+    /** Card payments. Outside production a key that only the local payments fake accepts is used when unset. */
+    STRIPE_SECRET_KEY: z.string().regex(/^sk_(test|live)_\w+$/, 'must be a Stripe secret key (sk_test_… or sk_live_…)').optional(),
+    /** Signs the provider's webhooks; outside production the local payments fake's secret is used when unset. */
+    STRIPE_WEBHOOK_SECRET: z.string().regex(/^whsec_\w+$/, 'must be a webhook signing secret (whsec_…)').optional(),
+    /** Another address for the Stripe API (the local payments fake); unset, the SDK talks to Stripe. */
+    STRIPE_API_BASE: z.url({ protocol: /^https?$/ }).optional(),
+    /** Set by the local scripts when they run the payments fake; used as STRIPE_API_BASE when that is unset. */
+    PAYMENTS_FAKE_URL: z.url({ protocol: /^https?$/ }).optional(),
   })
   .superRefine((env, ctx) => {
     if (env.NODE_ENV === 'production' && !env.AUTH_SECRET && env.PUBLIC_BASE_URL?.startsWith('https:')) {
       ctx.addIssue({ code: 'custom', path: ['AUTH_SECRET'], message: 'is required in production behind HTTPS' })
     }
+    // A production server must never fall back to the local fake's well-known secrets.
+    if (env.NODE_ENV === 'production' && !env.STRIPE_SECRET_KEY) ctx.addIssue({ code: 'custom', path: ['STRIPE_SECRET_KEY'], message: 'is required in production' })
+    if (env.NODE_ENV === 'production' && !env.STRIPE_WEBHOOK_SECRET) ctx.addIssue({ code: 'custom', path: ['STRIPE_WEBHOOK_SECRET'], message: 'is required in production' })
   })
   .transform((env) => {
     const publicBaseUrl = (env.PUBLIC_BASE_URL ?? `http://127.0.0.1:${env.PORT}`).replace(/\/$/, '')
@@ -52,6 +67,9 @@ export const EnvSchema = z
       PUBLIC_BASE_URL: publicBaseUrl,
       // Without a configured secret (local use), each process makes its own: sessions then end at restart.
       AUTH_SECRET: env.AUTH_SECRET ?? randomBytes(32).toString('base64url'),
+      STRIPE_SECRET_KEY: env.STRIPE_SECRET_KEY ?? LOCAL_STRIPE_SECRET_KEY,
+      STRIPE_WEBHOOK_SECRET: env.STRIPE_WEBHOOK_SECRET ?? LOCAL_STRIPE_WEBHOOK_SECRET,
+      STRIPE_API_BASE: env.STRIPE_API_BASE ?? env.PAYMENTS_FAKE_URL,
       COOKIE_SECURE: env.COOKIE_SECURE ?? publicBaseUrl.startsWith('https:'),
       ALLOWED_ORIGINS: [new URL(publicBaseUrl).origin, ...env.EXTRA_ORIGINS.split(',').map((o) => o.trim()).filter(Boolean)],
     }

@@ -3,7 +3,12 @@ import path from 'node:path'
 import { createApp } from './app'
 import { createDatabase } from './db/client'
 import { EnvError, loadEnv } from './env'
+import { createLiveHub } from './lib/live-hub'
 import { createLogger } from './lib/logger'
+import { createMailer } from './lib/mailer'
+import { createQueue } from './lib/queue'
+import { renderVersionPdf } from './modules/estimates/estimate-document'
+import { createEmailOutbox, createEmailWorker } from './modules/email/outbox'
 
 let env
 try {
@@ -19,7 +24,13 @@ try {
 const logger = createLogger(env.LOG_LEVEL)
 const { db, pool } = createDatabase(env.DATABASE_URL, logger, env.DATABASE_POOL_MAX)
 const pkg = JSON.parse(fs.readFileSync(path.resolve(import.meta.dirname, '..', 'package.json'), 'utf8')) as { version: string }
-const app = createApp({ env, db, pool, logger, version: pkg.version })
+const liveHub = createLiveHub({ connectionString: env.DATABASE_URL, logger })
+const mailer = createMailer(env)
+const jobs = createQueue(env.DATABASE_URL, logger)
+const outbox = createEmailOutbox({ db, jobs })
+const emailWorker = createEmailWorker({ db, jobs, mailer, logger, attachments: { 'estimate-pdf': async (a) => (await renderVersionPdf(db, a.workshopId, a.versionId)).bytes } })
+emailWorker.start()
+const app = createApp({ env, db, pool, logger, version: pkg.version, liveHub, mailer, outbox })
 
 const server = app.listen(env.PORT, env.HOST)
 server.on('listening', () => logger.info(`Tickover listening on http://${env.HOST}:${env.PORT}`))
@@ -40,7 +51,12 @@ async function shutdown(signal: string) {
   const force = setTimeout(() => process.exit(1), 10_000)
   force.unref()
   server.close()
+  // Live streams never end by themselves: closing the hub ends them, so browsers reconnect to another process.
+  await liveHub.close()
   server.closeIdleConnections()
+  // A message being handed to the mail server is finished; the rest wait in the queue for the next process.
+  await emailWorker.stop()
+  await jobs.stop(7_000)
   await pool.end().catch(() => undefined)
   process.exit(0)
 }

@@ -9,6 +9,7 @@ export interface MailMessage {
   html: string
   replyTo?: string
   fromName?: string
+  attachments?: { filename: string; content: Buffer | Uint8Array; contentType: string }[]
 }
 
 export interface Mailer {
@@ -28,7 +29,12 @@ export function createMailer(env: Env): Mailer {
   return {
     async send(message) {
       const from = message.fromName ? { name: message.fromName, address: addressOf(fromAddress) } : fromAddress
-      await transport.sendMail({ from, to: message.to, subject: message.subject, text: message.text, html: message.html, replyTo: message.replyTo })
+      const attachments = message.attachments?.map((a) => ({
+        filename: a.filename,
+        content: Buffer.isBuffer(a.content) ? a.content : Buffer.from(a.content.buffer, a.content.byteOffset, a.content.byteLength),
+        contentType: a.contentType,
+      }))
+      await transport.sendMail({ from, to: message.to, subject: message.subject, text: message.text, html: message.html, replyTo: message.replyTo, attachments })
     },
   }
 }

@@ -16,6 +16,15 @@ export const auditActions = [
   'estimate.sent',
   'estimate.withdrawn',
   'estimate.email_resent',
+  'deposit.checkout_started',
+  'deposit.paid',
+  'deposit.refunded',
+  'estimate.opened',
+  'estimate.decided',
+  'estimate.confirmed',
+  'estimate.question_asked',
+  'estimate.question_answered',
+  'estimate.link_renewed',
 ] as const
 export const AuditActionSchema = z.enum(auditActions)
 export type AuditAction = z.infer<typeof AuditActionSchema>

@@ -18,6 +18,15 @@ export const auditActionLabels = {
   'estimate.sent': 'Estimate sent to the customer',
   'estimate.withdrawn': 'Estimate withdrawn',
   'estimate.email_resent': 'Estimate e-mail sent again',
+  'deposit.checkout_started': 'Deposit payment page opened',
+  'deposit.paid': 'Deposit paid by card',
+  'deposit.refunded': 'Deposit refunded',
+  'estimate.opened': 'Estimate opened by the customer',
+  'estimate.decided': 'Customer decided on an item',
+  'estimate.confirmed': 'Customer confirmed their decisions',
+  'estimate.question_asked': 'Customer asked a question',
+  'estimate.question_answered': 'Question answered',
+  'estimate.link_renewed': 'Fresh estimate link sent',
 } satisfies Record<AuditAction, string>
 
 export const auditActionOptions = auditActions.map((value) => ({ value, title: auditActionLabels[value] }))

@@ -12,6 +12,8 @@ import { createApp } from '../../server/app'
 import { createDatabase } from '../../server/db/client'
 import { staffUsers, workshops } from '../../server/db/schema'
 import { loadEnv } from '../../server/env'
+import { createQueue } from '../../server/lib/queue'
+import { createEmailOutbox } from '../../server/modules/email/outbox'
 import { linkIn, waitForMail } from '../server/helpers/mail'
 import { formatMs, measure } from './stats'
 
@@ -90,7 +92,9 @@ export default async function () {
   const env = { ...loadEnv({ ...process.env, LOG_LEVEL: 'silent', RATE_LIMITS: 'false' }), CLIENT_DIST: '' }
   const logger = pino({ level: 'silent' })
   const { db, pool } = createDatabase(env.DATABASE_URL, logger, 10)
-  const server = createApp({ env, db, pool, logger, version: 'bench' }).listen(0, '127.0.0.1')
+  // The lookup sends no outbox mail, so no e-mail worker runs here.
+  const jobs = createQueue(env.DATABASE_URL, logger)
+  const server = createApp({ env, db, pool, logger, version: 'bench', outbox: createEmailOutbox({ db, jobs }) }).listen(0, '127.0.0.1')
   await new Promise((resolve) => server.once('listening', resolve))
   const base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`
   const origin = new URL(env.PUBLIC_BASE_URL).origin
@@ -142,6 +146,7 @@ export default async function () {
     console.log(`for comparison, GET /api/pricing: median ${formatMs(floor.median)}, p95 ${formatMs(floor.p95)}`)
   } finally {
     await new Promise((resolve) => server.close(resolve))
+    await jobs.stop()
     await pool.end()
     await services.stop()
   }
