@@ -11,7 +11,7 @@ import pino from 'pino'
 import type Stripe from 'stripe'
 import request from 'supertest'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { auditEvents, depositPayments, outboundEmails, paymentEvents } from '../../server/db/schema'
+import { auditEvents, depositPayments, jobs, outboundEmails, paymentEvents } from '../../server/db/schema'
 import { EnvError, loadEnv } from '../../server/env'
 import { createStripeClient } from '../../server/lib/stripe'
 import { createDepositsService } from '../../server/modules/payments/deposits.service'
@@ -136,6 +136,7 @@ describe('paying a deposit', () => {
     listener.on('notification', (n) => live.push(JSON.parse(n.payload ?? '{}') as LiveEvent))
     await listener.query(`listen ${LIVE_CHANNEL}`)
     try {
+      await t.db.update(jobs).set({ status: 'waiting_for_customer' }).where(eq(jobs.id, fx.job.id))
       const { url, sessionId } = await service.startCheckout(c.confirmation.id, urls)
       const waiting = await depositOf(c.confirmation.id)
       expect(waiting).toMatchObject({ status: 'awaiting_payment', amountMinor: 8085, currency: 'GBP', checkoutSessionId: sessionId, paidAt: null })
@@ -151,6 +152,8 @@ describe('paying a deposit', () => {
       const row = await paidDeposit(c.confirmation.id)
       expect(row?.paymentIntentId).toMatch(/^pi_/)
       expect(row?.paidAt).toBeInstanceOf(Date)
+      // With the deposit in, the job moves on to the work.
+      expect((await t.db.select({ status: jobs.status }).from(jobs).where(eq(jobs.id, fx.job.id)))[0]?.status).toBe('in_work')
 
       const state = await fakeState(key)
       const charge = state.charges.find((ch) => ch.payment_intent === row?.paymentIntentId)

@@ -2,7 +2,9 @@ import type { Request } from 'express'
 import type { Logger } from 'pino'
 import Stripe from 'stripe'
 import { z } from 'zod'
+import { and, eq, sql } from 'drizzle-orm'
 import type { Database } from '../../db/client'
+import { jobs } from '../../db/schema'
 import type { Env } from '../../env'
 import { recordAudit } from '../../lib/audit'
 import { AppError, ConflictError, NotFoundError } from '../../lib/errors'
@@ -219,6 +221,11 @@ export function createDepositsService(deps: DepositsDeps) {
       summary: `${ctx.customer.name} paid the deposit of ${amount}`.slice(0, 300),
     })
     await sendReceipt(tx, ctx, 'deposit.paid', paid.amountMinor, paid.currency, log)
+    // With the deposit in, the approved work can start.
+    await tx
+      .update(jobs)
+      .set({ status: 'in_work' })
+      .where(and(eq(jobs.workshopId, ctx.confirmation.workshopId), eq(jobs.id, sql`(select job_id from estimates where id = ${ctx.estimate.id})`), eq(jobs.status, 'waiting_for_customer')))
     return 'paid'
   }
 
