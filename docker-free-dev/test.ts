@@ -1,6 +1,8 @@
 /**
  * `npm test`: a throwaway PostgreSQL (own data folder, free port, database `tickover_test`), the mail
- * catcher and the payments fake; then type-check, lint and every vitest test. Services stop even on failure.
+ * catcher and the payments fake; then type-check, lint and every vitest test; then the browser journeys,
+ * which build the client and start a stack of their own (tests/e2e/support/global.ts). Services stop
+ * even on failure.
  */
 import { spawn } from 'node:child_process'
 import { bin, projectRoot } from './lib/children'
@@ -10,12 +12,16 @@ interface Step {
   name: string
   command: string
   args: string[]
+  /** Starts its own services: it is not given the shared ones, so it can never touch their database. */
+  ownServices?: boolean
 }
 
 const steps: Step[] = [
   { name: 'type-check', command: bin('vue-tsc'), args: ['--noEmit', '-p', 'tsconfig.json'] },
   { name: 'lint', command: bin('eslint'), args: ['.'] },
   { name: 'unit and API tests', command: bin('vitest'), args: ['run', ...process.argv.slice(2)] },
+  // Run even after a failure above: a broken journey is worth knowing about in the same run.
+  { name: 'browser journeys', command: bin('vitest'), args: ['run', '-c', 'vitest.e2e.config.ts'], ownServices: true },
 ]
 
 let services: TestServices | undefined
@@ -34,7 +40,7 @@ async function main(): Promise<number> {
   for (const step of steps) {
     console.log(`\n=== ${step.name} ===`)
     const t = Date.now()
-    const code = await run(step, services.env)
+    const code = await run(step, step.ownServices ? {} : services.env)
     results.push({ name: step.name, code, seconds: (Date.now() - t) / 1000 })
   }
   console.log('\n=== summary ===')
