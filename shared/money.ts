@@ -12,6 +12,7 @@
 import type { DineroCurrency } from 'dinero.js/bigint'
 import { dinero, toDecimal } from 'dinero.js/bigint'
 import * as dineroCurrencies from 'dinero.js/bigint/currencies'
+import { parseMajorUnits } from './catalogue/decimal'
 
 export type Currency = DineroCurrency<bigint>
 
@@ -64,6 +65,15 @@ export const CARD_MINIMUM_CHARGE: Readonly<Record<string, number>> = {
 /** 0 means no known minimum: any deposit above zero can be charged. */
 export function defaultMinimumCharge(code: string): number {
   return CARD_MINIMUM_CHARGE[code] ?? 0
+}
+
+/**
+ * Money as a person types it in major units ("12.50", "12.5", "1250" for yen) → integer minor units
+ * of `currency`, or null when it is not a plain non-negative amount with at most the currency's
+ * ISO 4217 minor digits. Parsed digit by digit (see parseMajorUnits): no float is involved.
+ */
+export function parseMoney(text: string, currency: string): number | null {
+  return parseMajorUnits(text, minorUnitExponent(currency))
 }
 
 const formatters = new Map<string, Intl.NumberFormat>()

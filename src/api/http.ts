@@ -8,9 +8,9 @@ export interface ApiIssue {
   code?: string
 }
 
-/** The server's error body, `{ error: { code, message, issues? } }`; see server/middleware/errors.ts. */
+/** The server's error body, `{ error: { code, message, issues?, details? } }`; see server/middleware/errors.ts. */
 interface ErrorBody {
-  error: { code: string; message: string; issues?: ApiIssue[] }
+  error: { code: string; message: string; issues?: ApiIssue[]; details?: unknown }
 }
 
 // Checked by hand rather than with zod: this module is on every page's path, and zod would
@@ -38,6 +38,8 @@ export class ApiError extends Error {
     readonly code: string,
     message: string,
     readonly issues: ApiIssue[] = [],
+    /** What some refusals add so the page can offer the next step (a fresh link, the latest version); its shape depends on `code`. */
+    readonly details: unknown = undefined,
   ) {
     super(message)
   }
@@ -106,7 +108,7 @@ export async function request<T>(method: string, path: string, options: RequestO
  * a 401 also reaches the one unauthorized handler. Shared with the upload helper in upload.ts.
  */
 export function failedAnswer(status: number, body: unknown): ApiError {
-  const error = isErrorBody(body) ? new ApiError(status, body.error.code, body.error.message, body.error.issues) : unexpectedAnswer(status)
+  const error = isErrorBody(body) ? new ApiError(status, body.error.code, body.error.message, body.error.issues, body.error.details) : unexpectedAnswer(status)
   if (status === 401) unauthorizedHandler?.(error)
   return error
 }

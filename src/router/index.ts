@@ -69,6 +69,14 @@ export const routes: RouteRecordRaw[] = [
         ],
       },
       {
+        path: 'estimates',
+        meta: { permission: 'estimates:read' },
+        children: [
+          { path: '', name: 'estimates', component: () => import('@/pages/staff/EstimatesPage.vue'), meta: { title: 'Estimates' } },
+          { path: ':id', name: 'estimate', component: () => import('@/pages/staff/EstimateDetailPage.vue'), props: true, meta: { title: 'Estimate' } },
+        ],
+      },
+      {
         path: 'symptoms',
         name: 'symptom-guide',
         component: () => import('@/pages/staff/SymptomGuidePage.vue'),
@@ -149,20 +157,36 @@ export const routes: RouteRecordRaw[] = [
       {
         path: 'sign-in',
         name: 'portal-sign-in',
-        component: () => portalChunk().then((m) => m.PortalSignInPage),
+        component: () => portalChunk().then((m) => m.loadPortalSignInPage()),
         meta: { title: 'Sign in', signIn: { audience: 'customer', step: 'request' } },
       },
       {
         path: 'sign-in/link',
         name: 'portal-sign-in-link',
-        component: () => portalChunk().then((m) => m.PortalSignInLinkPage),
+        component: () => portalChunk().then((m) => m.loadPortalSignInLinkPage()),
         meta: { title: 'Signing in', signIn: { audience: 'customer', step: 'link' } },
       },
       {
         path: 'account',
         name: 'portal-account',
-        component: () => portalChunk().then((m) => m.PortalAccountPage),
+        component: () => portalChunk().then((m) => m.loadPortalAccountPage()),
         meta: { title: 'Your account', requires: 'customer' },
+      },
+      {
+        // The link from the estimate e-mail; the page signs the customer in with it.
+        path: 'open',
+        name: 'portal-open',
+        component: () => portalChunk().then((m) => m.PortalOpenPage),
+        meta: { title: 'Your repair estimate' },
+      },
+      {
+        path: 'estimates/:id',
+        meta: { requires: 'customer' },
+        children: [
+          { path: '', name: 'portal-estimate', component: () => portalChunk().then((m) => m.PortalEstimatePage), props: true, meta: { title: 'Your repair estimate' } },
+          { path: 'confirm', name: 'portal-confirm', component: () => portalChunk().then((m) => m.loadPortalConfirmPage()), props: true, meta: { title: 'Review and confirm' } },
+          { path: 'paid', name: 'portal-paid', component: () => portalChunk().then((m) => m.loadPortalPaidPage()), props: true, meta: { title: 'Your deposit' } },
+        ],
       },
     ],
   },

@@ -98,12 +98,12 @@ describe('navigation', () => {
 
     const bar = document.querySelector('nav[aria-label="Main"]')
     const buttons = [...(bar?.querySelectorAll('a, button') ?? [])].map((b) => (b.textContent ?? '').trim())
-    expect(buttons).toEqual(['Home', 'Jobs', 'Vehicles', 'More'])
+    expect(buttons).toEqual(['Home', 'Jobs', 'Estimates', 'More'])
     buttonByName('More', bar as HTMLElement).click()
     await flushPromises()
     const sheet = document.querySelector('[aria-label="More pages"] .v-list, .v-list[aria-label="More pages"]')
     const more = [...(sheet?.querySelectorAll('a') ?? [])].map((a) => (a.textContent ?? '').trim())
-    expect(more).toEqual(expect.arrayContaining(['Customers', 'Team', 'Settings', 'Activity log']))
+    expect(more).toEqual(expect.arrayContaining(['Vehicles', 'Customers', 'Team', 'Settings', 'Activity log']))
   })
 
   it('offers an owner the team, settings and activity log', async () => {
