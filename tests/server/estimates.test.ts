@@ -44,7 +44,7 @@ describe('estimates', () => {
 
   it('turns findings into items priced from the labour table and parts list, sharing access between them', async () => {
     const seal = await addFinding(shop)
-    const cv = await addFinding(shop, { title: 'CV joint clicking on full lock', severity: 'urgent', suggestedRepair: { labour: ['CV-REPLACE'], parts: ['CV-JOINT', 'NOT-A-PART'] } })
+    const cv = await addFinding(shop, { title: 'Left CV joint clicking on full lock', severity: 'urgent', suggestedRepair: { labour: ['CV-REPLACE'], parts: ['CV-JOINT', 'NOT-A-PART'] } })
     const res = await advisor.post('/api/estimates', { jobId: shop.job.id, findingIds: [seal.id, cv.id] })
     expect(res.status, JSON.stringify(res.body)).toBe(201)
     const est = res.body as EstimateDetail
@@ -59,7 +59,11 @@ describe('estimates', () => {
     // The hub step brings the steps it includes, so the engine can price the shared access.
     expect(est.draft.accessSteps.map((s) => s.code).sort()).toEqual(['CAL-FL', 'HUB-FL', 'WHL-FL'])
     expect(second?.severity).toBe('urgent')
+    // Its own words already name the side, so nothing is added.
+    expect(second?.title).toBe('Left CV joint clicking on full lock')
     expect(est.notices.join(' ')).toContain('NOT-A-PART')
+    // The demo list has the seal kit for two vehicle groups; the advisor is told the first one is a guess.
+    expect(est.notices.join(' ')).toContain('2 parts match SWV-SEAL-KIT (SWV-SEAL-KIT-C, SWV-SEAL-KIT-L)')
 
     // Both approved, the second item does not pay again for the hub the first one takes off.
     const figures = calculateEstimate(draftToEngineInput(est.draft, est.currency, { [first?.id ?? '']: 'approved', [second?.id ?? '']: 'approved' }))

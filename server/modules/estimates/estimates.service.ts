@@ -154,10 +154,16 @@ export function createEstimatesService(deps: EstimatesServiceDeps) {
         })
       }
       for (const code of f.suggestedRepair.parts) {
-        const part = partRows.find((p) => p.partNumber === code) ?? partRows.find((p) => p.partNumber.startsWith(`${code}-`))
+        const exact = partRows.find((p) => p.partNumber === code)
+        const variants = partRows.filter((p) => p.partNumber.startsWith(`${code}-`))
+        const part = exact ?? variants[0]
         if (!part) {
           notices.push(`"${f.title}": the suggested part ${code} is not in your parts list; add the part by hand.`)
           continue
+        }
+        // Parts carry no vehicle group, so when several variants match the first is only a guess.
+        if (!exact && variants.length > 1) {
+          notices.push(`"${f.title}": ${variants.length} parts match ${code} (${variants.map((v) => v.partNumber).join(', ')}); ${part.partNumber} was added — check it is the right one for this vehicle.`)
         }
         const sell = sellPrice(part, price.markupBands, price.currency)
         if (!sell) notices.push(`"${f.title}": ${part.partNumber} has no price (no markup band covers its cost), so it is priced at 0.`)
@@ -175,7 +181,8 @@ export function createEstimatesService(deps: EstimatesServiceDeps) {
       return {
         id: randomUUID(),
         findingId: f.id,
-        title: side ? `${f.title} — ${side.toLowerCase()}` : f.title,
+        // "Swivel seal leaking — left", unless the finding's own words already say which side.
+        title: side && !f.title.toLowerCase().includes(side.toLowerCase()) ? `${f.title} — ${side.toLowerCase()}` : f.title,
         severity: f.severity,
         customerNote: '',
         requires: [],

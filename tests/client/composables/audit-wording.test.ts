@@ -13,7 +13,7 @@ describe('actionLabel', () => {
   })
 
   it('still reads as words for an action added later', () => {
-    expect(actionLabel('estimate.sent')).toBe('Estimate sent')
+    expect(actionLabel('invoice.sent')).toBe('Invoice sent')
   })
 })
 
