@@ -1,50 +1,7 @@
 import { z } from 'zod'
+import { severityCodes } from '../severity-table'
 
-/**
- * Most serious first: lists of findings sort in this order. Marked pure so that a bundle
- * needing only the table below (the client's theme) can leave zod out.
- */
-export const SeveritySchema = /* @__PURE__ */ z.enum(['urgent', 'soon', 'watch', 'ok'])
-export type Severity = z.infer<typeof SeveritySchema>
+export { severities, severityCodes, type Severity, type SeverityDefinition, type SeverityIconName } from '../severity-table'
 
-export interface SeverityDefinition {
-  label: string
-  meaning: string
-  /** sRGB hex; white text on it meets WCAG AA (checked in tests/client/severity-contrast.test.ts). */
-  colour: `#${string}`
-  /** A Material Design Icons name; each front end maps it to its own icon (shared/ imports no UI code). */
-  icon: `mdi-${string}`
-}
-
-/**
- * Severity is always shown as word + icon + colour, never colour alone, so each level has a
- * differently shaped icon as well as its own colour.
- */
-export const severities = {
-  urgent: {
-    label: 'Fix now — safety',
-    meaning: 'Unsafe to drive, or damage will spread quickly.',
-    colour: '#B3261E',
-    icon: 'mdi-alert-octagon',
-  },
-  soon: {
-    label: 'Fix soon',
-    meaning: 'Worn or leaking; plan the repair within weeks.',
-    colour: '#9A5B00',
-    icon: 'mdi-alert',
-  },
-  watch: {
-    label: 'Keep an eye on',
-    meaning: 'Within limits today; check again at the next service.',
-    colour: '#2F5F8A',
-    icon: 'mdi-eye',
-  },
-  ok: {
-    label: 'All good',
-    meaning: 'Checked and fine.',
-    colour: '#3D6B45',
-    icon: 'mdi-check-circle',
-  },
-} as const satisfies Record<Severity, SeverityDefinition>
-
-export type SeverityIconName = (typeof severities)[Severity]['icon']
+/** Most serious first: lists of findings sort in this order. */
+export const SeveritySchema = z.enum(severityCodes)

@@ -17,10 +17,6 @@ declare module 'vue-router' {
   }
 }
 
-// Customers only ever load the portal, so it ships as one chunk of its own with none of the
-// staff screens in it; see portal-chunk.ts.
-const portalChunk = () => import('./portal-chunk')
-
 const StaffLayout = () => import('@/layouts/StaffLayout.vue')
 
 export const routes: RouteRecordRaw[] = [
@@ -145,47 +141,50 @@ export const routes: RouteRecordRaw[] = [
     ],
   },
   {
+    // Customers only ever load the portal. Each page is its own lazy chunk (none of the staff
+    // screens in it), so a page brings only what it uses: the sign-in form does not carry the
+    // estimate engine, and the page the e-mail link opens does not carry the sign-in form.
     path: '/portal',
-    component: () => portalChunk().then((m) => m.PortalLayout),
+    component: () => import('@/layouts/PortalLayout.vue'),
     children: [
       {
         path: '',
         name: 'portal-welcome',
-        component: () => portalChunk().then((m) => m.PortalWelcomePage),
+        component: () => import('@/pages/portal/PortalWelcomePage.vue'),
         meta: { title: 'Your repair estimate' },
       },
       {
         path: 'sign-in',
         name: 'portal-sign-in',
-        component: () => portalChunk().then((m) => m.loadPortalSignInPage()),
+        component: () => import('@/pages/portal/PortalSignInPage.vue'),
         meta: { title: 'Sign in', signIn: { audience: 'customer', step: 'request' } },
       },
       {
         path: 'sign-in/link',
         name: 'portal-sign-in-link',
-        component: () => portalChunk().then((m) => m.loadPortalSignInLinkPage()),
+        component: () => import('@/pages/portal/PortalSignInLinkPage.vue'),
         meta: { title: 'Signing in', signIn: { audience: 'customer', step: 'link' } },
       },
       {
         path: 'account',
         name: 'portal-account',
-        component: () => portalChunk().then((m) => m.loadPortalAccountPage()),
+        component: () => import('@/pages/portal/PortalAccountPage.vue'),
         meta: { title: 'Your account', requires: 'customer' },
       },
       {
         // The link from the estimate e-mail; the page signs the customer in with it.
         path: 'open',
         name: 'portal-open',
-        component: () => portalChunk().then((m) => m.PortalOpenPage),
+        component: () => import('@/pages/portal/PortalOpenPage.vue'),
         meta: { title: 'Your repair estimate' },
       },
       {
         path: 'estimates/:id',
         meta: { requires: 'customer' },
         children: [
-          { path: '', name: 'portal-estimate', component: () => portalChunk().then((m) => m.PortalEstimatePage), props: true, meta: { title: 'Your repair estimate' } },
-          { path: 'confirm', name: 'portal-confirm', component: () => portalChunk().then((m) => m.loadPortalConfirmPage()), props: true, meta: { title: 'Review and confirm' } },
-          { path: 'paid', name: 'portal-paid', component: () => portalChunk().then((m) => m.loadPortalPaidPage()), props: true, meta: { title: 'Your deposit' } },
+          { path: '', name: 'portal-estimate', component: () => import('@/pages/portal/PortalEstimatePage.vue'), props: true, meta: { title: 'Your repair estimate' } },
+          { path: 'confirm', name: 'portal-confirm', component: () => import('@/pages/portal/PortalConfirmPage.vue'), props: true, meta: { title: 'Review and confirm' } },
+          { path: 'paid', name: 'portal-paid', component: () => import('@/pages/portal/PortalPaidPage.vue'), props: true, meta: { title: 'Your deposit' } },
         ],
       },
     ],

@@ -98,7 +98,8 @@ const BREATHER: NewFinding = {
 const escaped = (text: string) => text.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')
 
 /** The item title the estimate gives a finding: the finding's title and its side. */
-const itemTitle = (f: NewFinding) => `${f.title} — ${f.position}`
+/** The item's title as the estimate builds it: the side is added unless the finding already names it. */
+const itemTitle = (f: NewFinding) => (f.title.toLowerCase().includes(f.position) ? f.title : `${f.title} — ${f.position}`)
 
 // ---------------------------------------------------------------------------------------------
 // Reading the screens
