@@ -14,7 +14,7 @@ import type { LabourService } from '../catalogue/labour.service'
 import type { PricingRepo } from '../catalogue/pricing.repo'
 import { estimateLinkUrl, issueEstimateLink, revokeEstimateLinks } from '../portal/estimate-links'
 import { type EstimatesRepo, type Queryable, type Tx } from './estimates.repo'
-import { snapshotHash } from './estimate-snapshot'
+import { buildSnapshot, snapshotHash } from './estimate-snapshot'
 import type { StaffPrincipal } from '../../../shared/schemas/auth'
 import type { Page } from '../../../shared/schemas/common'
 import type { Decision, EstimateResult } from '../../../shared/schemas/estimate'
@@ -456,46 +456,16 @@ ${updated ? `<p>${escapeHtml(updated)}</p>` : ''}
         const findingIds = draft.items.flatMap((i) => (i.findingId ? [i.findingId] : []))
         const [findingRows, photoIds] = await Promise.all([repo.findingsByIds(tx, workshopId, findingIds), repo.photoIdsOf(tx, workshopId, findingIds)])
         const version = (previous?.version.version ?? 0) + 1
-        const snapshot: EstimateSnapshot = {
-          format: 1,
-          estimateId: id,
-          number: row.estimate.number,
-          reference: estimateReference(row.estimate.number),
+        const snapshot = buildSnapshot({
+          estimate: { id, number: row.estimate.number },
           version,
-          expiresOn: draft.expiresOn,
+          draft,
           currency: row.workshop.currency,
-          workshop: {
-            name: row.workshop.name,
-            addressLines: row.workshop.addressLines,
-            postcode: row.workshop.postcode,
-            phone: row.workshop.phone,
-            email: row.workshop.email,
-            vatNumber: row.workshop.vatNumber,
-          },
-          customer: { id: row.customer.id, name: row.customer.name, email: row.customer.email },
-          vehicle: { registration: row.vehicle.registration, make: row.vehicle.make, model: row.vehicle.model, year: row.vehicle.year, vin: row.vehicle.vin },
-          message: draft.message,
-          items: draft.items.map((item, index) => {
-            const f = item.findingId ? findingRows.find((r) => r.id === item.findingId) : undefined
-            return {
-              id: item.id,
-              number: index + 1,
-              title: item.title,
-              severity: item.severity,
-              customerNote: item.customerNote,
-              explanation: f?.explanation ?? null,
-              measurement: f?.measurement ?? null,
-              photoIds: item.findingId ? (photoIds.get(item.findingId) ?? []) : [],
-              requires: item.requires,
-              lines: item.lines,
-            }
-          }),
-          accessSteps: draft.accessSteps,
-          taxMode: draft.taxMode,
-          taxRounding: draft.taxRounding,
-          discount: draft.discount,
-          deposit: draft.deposit,
-        }
+          workshop: row.workshop,
+          customer: row.customer,
+          vehicle: row.vehicle,
+          findings: new Map(findingRows.map((f) => [f.id, { explanation: f.explanation, measurement: f.measurement, photoIds: photoIds.get(f.id) ?? [] }])),
+        })
         const result = calculateEstimate(snapshotToEngineInput(snapshot))
         const hash = snapshotHash(snapshot)
         const [saved] = await tx

@@ -1,7 +1,7 @@
 import { eq, sql } from 'drizzle-orm'
 import type { Database } from '../../../server/db/client'
 import { estimateConfirmations, estimates, estimateVersions } from '../../../server/db/schema'
-import { snapshotHash } from '../../../server/modules/estimates/estimate-snapshot'
+import { buildSnapshot, snapshotHash } from '../../../server/modules/estimates/estimate-snapshot'
 import { calculateEstimate } from '../../../shared/estimate'
 import type { EstimateResult } from '../../../shared/schemas/estimate'
 import {
@@ -70,43 +70,15 @@ export async function makeSentEstimate(db: Database, fx: Fixture, opts: { draft?
     .returning()
   if (!estimate) throw new Error('no estimate')
   const reference = estimateReference(number)
-  const snapshot: EstimateSnapshot = {
-    format: 1,
-    estimateId: estimate.id,
-    number,
-    reference,
+  const snapshot = buildSnapshot({
+    estimate: { id: estimate.id, number },
     version: versionNumber,
-    expiresOn: draft.expiresOn,
+    draft,
     currency: fx.workshop.currency,
-    workshop: {
-      name: fx.workshop.name,
-      addressLines: fx.workshop.addressLines,
-      postcode: fx.workshop.postcode,
-      phone: fx.workshop.phone,
-      email: fx.workshop.email,
-      vatNumber: fx.workshop.vatNumber,
-    },
-    customer: { id: fx.customer.id, name: fx.customer.name, email: fx.customer.email },
-    vehicle: { registration: fx.vehicle.registration, make: fx.vehicle.make, model: fx.vehicle.model, year: fx.vehicle.year, vin: fx.vehicle.vin },
-    message: draft.message,
-    items: draft.items.map((item, index) => ({
-      id: item.id,
-      number: index + 1,
-      title: item.title,
-      severity: item.severity,
-      customerNote: item.customerNote,
-      explanation: null,
-      measurement: null,
-      photoIds: [],
-      requires: item.requires,
-      lines: item.lines,
-    })),
-    accessSteps: draft.accessSteps,
-    taxMode: draft.taxMode,
-    taxRounding: draft.taxRounding,
-    discount: draft.discount,
-    deposit: draft.deposit,
-  }
+    workshop: fx.workshop,
+    customer: fx.customer,
+    vehicle: fx.vehicle,
+  })
   const proposed = calculateEstimate(snapshotToEngineInput(snapshot))
   const [version] = await db
     .insert(estimateVersions)
