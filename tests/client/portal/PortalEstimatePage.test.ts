@@ -75,6 +75,9 @@ describe('the estimate page', () => {
     expect(main).toContain('Estimate E-0042, version 1')
     expect(main).toContain('Decide by Tuesday 31 March 2026')
     expect(main).toContain('Here is what we found on the ramp.')
+    // What everything would cost, before the customer picks: the engine's proposed total.
+    const all = priced(snapshot(), { ...pendingDecisions })
+    expect(main).toContain(`All ${snapshot().items.length} items together come to ${money(all.proposed.gross)} incl. VAT`)
     expect(buttonByName('Call 01632 960 555').getAttribute('href')).toBe('tel:01632960555')
     expect(buttonByName('E-mail desk@hollowmere.test').getAttribute('href')).toBe('mailto:desk@hollowmere.test')
   })
