@@ -6,7 +6,9 @@ import { calculateEstimate } from '../../shared/estimate'
 import { snapshotToEngineInput, type EstimateDetail } from '../../shared/schemas/estimates'
 import type { PortalEstimate } from '../../shared/schemas/portal'
 import { makeTestApp } from './helpers/app'
-import { type Fixture, makeWorkshop, signIn } from './helpers/fixtures'
+import type { Express } from 'express'
+import request from 'supertest'
+import { type Fixture, makeWorkshop } from './helpers/fixtures'
 import { type LiveStream, listen, openLiveStream, signInCookie } from './helpers/live'
 import { linkIn, waitForMail } from './helpers/mail'
 import { openLink } from './helpers/portal'
@@ -18,6 +20,15 @@ const two = makeTestApp({ AUTH_SECRET: secret })
 const stops: (() => Promise<void>)[] = []
 const streams: LiveStream[] = []
 let shop: Fixture
+
+/** Same-origin requests carrying a session cookie, as the advisor's browser sends them. */
+function withCookie(app: Express, cookie: string) {
+  const origin = 'http://127.0.0.1:3000'
+  return {
+    get: (path: string) => request(app).get(path).set('Cookie', cookie),
+    post: (path: string, body: object = {}) => request(app).post(path).set('Cookie', cookie).set('Origin', origin).send(body),
+  }
+}
 
 beforeAll(async () => {
   shop = await makeWorkshop(one.db, 'Journey Works')
@@ -47,13 +58,14 @@ describe('from finding to the customer’s decision, seen live by the advisor', 
       .returning()
     if (!finding) throw new Error('no finding')
 
-    const advisor = await signIn(one.app, shop.advisor.email)
+    // One sign-in: its session cookie serves the API calls and both live streams.
+    const cookie = await signInCookie(one.app, shop.advisor.email)
+    const advisor = withCookie(one.app, cookie)
     const created = (await advisor.post('/api/estimates', { jobId: shop.job.id, findingIds: [finding.id] })).body as EstimateDetail
     expect(created.draft.items[0]?.lines.map((l) => (l.kind === 'labour' ? l.operationCode : l.kind === 'part' ? l.partNumber : null))).toEqual(['PROP-UJ-F', 'UJ-STD-C'])
 
     const [a, b] = await Promise.all([listen(one.app), listen(two.app)])
     stops.push(a.close, b.close)
-    const cookie = await signInCookie(one.app, shop.advisor.email)
     const onOne = await openLiveStream(a.baseUrl, cookie)
     const onTwo = await openLiveStream(b.baseUrl, cookie)
     streams.push(onOne, onTwo)

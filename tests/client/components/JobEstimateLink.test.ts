@@ -1,15 +1,19 @@
 // @vitest-environment happy-dom
 import { flushPromises, mount } from '@vue/test-utils'
-import { afterEach, describe, expect, it } from 'vitest'
+import { afterEach, beforeAll, describe, expect, it } from 'vitest'
 import { createMemoryHistory, createRouter } from 'vue-router'
 import JobEstimateLink from '@/components/estimates/JobEstimateLink.vue'
 import { routes } from '@/router'
 import type { JobEstimate } from '@/stores/estimates'
 import { buttonByName, queryButtonByName } from '../support/dom'
 import { estimateIds } from '../support/estimates'
+import { preloadRouteComponents } from '../support/router'
 import { createTestVuetify } from '../support/vuetify'
 
 let unmount: (() => void) | undefined
+
+// Installing the router starts the first navigation; its lazy page must not load after the test has gone.
+beforeAll(() => preloadRouteComponents())
 
 function mountLink(props: { estimate: JobEstimate | null | undefined; canStart?: boolean }) {
   const router = createRouter({ history: createMemoryHistory(), routes })
