@@ -12,7 +12,7 @@ import type { Env } from './env'
 import { recordAudit } from './lib/audit'
 import { type Mailer, createMailer } from './lib/mailer'
 import type { EmailOutbox } from './modules/email/outbox'
-import { createAuthLimits } from './lib/rate-limits'
+import { createAuthLimits, createRenewLimits } from './lib/rate-limits'
 import { RouteTable } from './lib/route-table'
 import { absoluteLifetime, createSessionMiddleware, sessionCookieName } from './lib/session'
 import { csrfProtection } from './middleware/csrf'
@@ -24,7 +24,7 @@ import { createAuthRepo } from './modules/auth/auth.repo'
 import { authRoutes, configureMagicLink, inviteLinkHandler } from './modules/auth/auth.routes'
 import { createAuthService } from './modules/auth/auth.service'
 import { portalRoutes } from './modules/portal/portal.routes'
-import { createRenewLimits, noReferrer, portalEstimateRoutes } from './modules/portal/portal-estimates.routes'
+import { noReferrer, portalEstimateRoutes } from './modules/portal/portal-estimates.routes'
 import { createPortalRepo } from './modules/portal/portal.repo'
 import { createPortalService } from './modules/portal/portal.service'
 import { estimateQuestionRoutes } from './modules/portal/questions.routes'
@@ -163,6 +163,7 @@ export function createApp(deps: AppDeps): express.Express {
   )
   api.use(csrfProtection(env.ALLOWED_ORIGINS))
 
+  const pricingRepo = createPricingRepo(db)
   const groups = [
     systemRoutes(table, createSystemService(pool, deps.version ?? '0.0.0')),
     authRoutes(table, { passport, service: authService, db, limits: createAuthLimits(env, pool) }),
@@ -191,7 +192,7 @@ export function createApp(deps: AppDeps): express.Express {
     recordRoutes(table, '/jobs', { read: 'jobs:read', write: 'jobs:write', input: JobInputSchema, listQuery: JobListQuerySchema, service: createJobsService(createJobsRepo(db)) }),
     liveRoutes(table, liveHub),
     paymentsRoutes(table, deposits),
-    ...estimatesRoutes(table, { db, service: createEstimatesService({ repo: createEstimatesRepo(db), labour: createLabourService({ repo: createLabourRepo(db), pricing: createPricingRepo(db) }), pricing: createPricingRepo(db), outbox: deps.outbox, env, logger }) }),
+    ...estimatesRoutes(table, { db, service: createEstimatesService({ repo: createEstimatesRepo(db), labour: createLabourService({ repo: createLabourRepo(db), pricing: pricingRepo }), pricing: pricingRepo, outbox: deps.outbox, env, logger }) }),
   ]
   for (const g of groups) api.use(g.base || '/', g.router)
   api.use(apiNotFound)

@@ -1,9 +1,9 @@
-import { createHash } from 'node:crypto'
 import type { RequestHandler } from 'express'
 import { ipKeyGenerator, rateLimit } from 'express-rate-limit'
 import type pg from 'pg'
 import type { Env } from '../env'
 import { PostgresRateLimitStore } from './rate-limit-store'
+import { hashToken } from './tokens'
 
 const FIFTEEN_MINUTES = 15 * 60_000
 
@@ -29,7 +29,19 @@ export function createAuthLimits(env: Env, pool: pg.Pool) {
   }
   return {
     byIp: limiter(pool, 'link-ip:', 20, (req) => ipKeyGenerator(req.ip ?? 'unknown')),
-    byEmail: limiter(pool, 'link-email:', 5, (req) => createHash('sha256').update(String((req.body as { email?: string }).email ?? '')).digest('hex')),
+    byEmail: limiter(pool, 'link-email:', 5, (req) => hashToken(String((req.body as { email?: string }).email ?? ''))),
     verifyByIp: limiter(pool, 'verify-ip:', 30, (req) => ipKeyGenerator(req.ip ?? 'unknown')),
+  }
+}
+
+/** Renewal asks send e-mail to a customer, so they are limited per client and per token, like the sign-in limits. */
+export function createRenewLimits(env: Pick<Env, 'RATE_LIMITS'>, pool: pg.Pool): { byIp: RequestHandler; byToken: RequestHandler } {
+  if (!env.RATE_LIMITS) {
+    const pass: RequestHandler = (_req, _res, next) => next()
+    return { byIp: pass, byToken: pass }
+  }
+  return {
+    byIp: limiter(pool, 'renew-ip:', 10, (req) => ipKeyGenerator(req.ip ?? 'unknown')),
+    byToken: limiter(pool, 'renew-token:', 3, (req) => hashToken(String((req.body as { token?: string }).token ?? ''))),
   }
 }

@@ -1,4 +1,4 @@
-import { createHash } from 'node:crypto'
+import { hashToken } from '../../lib/tokens'
 import type { Request } from 'express'
 import type { Logger } from 'pino'
 import type { Database } from '../../db/client'
@@ -14,7 +14,6 @@ export const SIGN_IN_LINK_SECONDS = 600
 
 export type Audience = 'staff' | 'customer'
 
-export const hashToken = (token: string) => createHash('sha256').update(token, 'utf8').digest('hex')
 
 export function createAuthService(deps: { repo: AuthRepo; db: Database; mailer: Mailer; logger: Logger; env: Env }) {
   const { repo, db, mailer, logger, env } = deps

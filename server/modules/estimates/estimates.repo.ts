@@ -34,6 +34,11 @@ const statusSql = sql<EstimateStatus>`case
   when v.opened_at is not null then 'opened'
   else 'sent' end`
 
+/** The latest version (v), its confirmation (ec) and deposit (dp) beside each estimate e, for statusSql. */
+const latestVersionJoins = sql`left join lateral (select * from estimate_versions x where x.estimate_id = e.id order by x.version desc limit 1) v on true
+  left join estimate_confirmations ec on ec.version_id = v.id
+  left join deposit_payments dp on dp.confirmation_id = ec.id`
+
 export function createEstimatesRepo(db: Database) {
   return {
     db,
@@ -96,9 +101,7 @@ export function createEstimatesRepo(db: Database) {
           join jobs j on j.id = e.job_id
           join vehicles ve on ve.id = j.vehicle_id
           join customers c on c.id = ve.customer_id
-          left join lateral (select * from estimate_versions x where x.estimate_id = e.id order by x.version desc limit 1) v on true
-          left join estimate_confirmations ec on ec.version_id = v.id
-          left join deposit_payments dp on dp.confirmation_id = ec.id
+          ${latestVersionJoins}
           where ${sql.join(where, sql` and `)}
         )
         select *, count(*) over () as total from listed ${statusFilter}
@@ -112,9 +115,7 @@ export function createEstimatesRepo(db: Database) {
         select ${statusSql} as status
         from estimates e
         join workshops w on w.id = e.workshop_id
-        left join lateral (select * from estimate_versions x where x.estimate_id = e.id order by x.version desc limit 1) v on true
-        left join estimate_confirmations ec on ec.version_id = v.id
-        left join deposit_payments dp on dp.confirmation_id = ec.id
+        ${latestVersionJoins}
         where e.workshop_id = ${workshopId} and e.id = ${id}`)
       return result.rows[0]?.status
     },

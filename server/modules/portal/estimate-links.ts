@@ -1,7 +1,8 @@
-import { createHash, randomBytes } from 'node:crypto'
+import { randomBytes } from 'node:crypto'
 import { and, eq, inArray, isNull, ne, sql } from 'drizzle-orm'
 import type { Database } from '../../db/client'
 import { estimateLinks, estimateVersions } from '../../db/schema'
+import { hashToken } from '../../lib/tokens'
 
 type Tx = Pick<Database, 'insert' | 'update' | 'select'>
 
@@ -11,13 +12,9 @@ type Tx = Pick<Database, 'insert' | 'update' | 'select'>
  * opens that one estimate and nothing else, and is revoked when a newer version is sent or the
  * estimate is withdrawn.
  */
-export function hashLinkToken(token: string): string {
-  return createHash('sha256').update(token).digest('hex')
-}
-
 export async function issueEstimateLink(tx: Tx, link: { workshopId: string; versionId: string; customerId: string; expiresAt: Date }): Promise<string> {
   const token = randomBytes(32).toString('base64url')
-  await tx.insert(estimateLinks).values({ ...link, tokenHash: hashLinkToken(token) })
+  await tx.insert(estimateLinks).values({ ...link, tokenHash: hashToken(token) })
   return token
 }
 

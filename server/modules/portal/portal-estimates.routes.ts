@@ -1,10 +1,5 @@
-import { createHash } from 'node:crypto'
 import type { ErrorRequestHandler, Request, RequestHandler } from 'express'
-import { ipKeyGenerator, rateLimit } from 'express-rate-limit'
-import type pg from 'pg'
 import type { Database } from '../../db/client'
-import type { Env } from '../../env'
-import { PostgresRateLimitStore } from '../../lib/rate-limit-store'
 import { type RouteTable, anyone, customerOnly } from '../../lib/route-table'
 import { customerOf } from '../../middleware/auth'
 import { validate } from '../../middleware/validate'
@@ -43,30 +38,6 @@ const tokenAnswer: RequestHandler = (_req, res, next) => {
   res.set('Referrer-Policy', 'no-referrer')
   res.set('Cache-Control', 'no-store')
   next()
-}
-
-/** Renewal asks send e-mail to a customer, so they are limited per client and per token, in PostgreSQL like the sign-in limits. */
-export function createRenewLimits(env: Pick<Env, 'RATE_LIMITS'>, pool: pg.Pool): { byIp: RequestHandler; byToken: RequestHandler } {
-  if (!env.RATE_LIMITS) {
-    const pass: RequestHandler = (_req, _res, next) => next()
-    return { byIp: pass, byToken: pass }
-  }
-  const limiter = (prefix: string, limit: number, key: (req: Request) => string) =>
-    rateLimit({
-      windowMs: 15 * 60_000,
-      limit,
-      standardHeaders: 'draft-8',
-      legacyHeaders: false,
-      store: new PostgresRateLimitStore(pool, prefix),
-      keyGenerator: key,
-      handler: (_req, res) => {
-        res.status(429).json({ error: { code: 'too_many_requests', message: 'Too many attempts. Please wait a few minutes and try again.' } })
-      },
-    })
-  return {
-    byIp: limiter('renew-ip:', 10, (req) => ipKeyGenerator(req.ip ?? 'unknown')),
-    byToken: limiter('renew-token:', 3, (req) => createHash('sha256').update(String((req.body as { token?: string }).token ?? '')).digest('hex')),
-  }
 }
 
 /** The portal's refusals carry `details` (what a page needs to offer the next step) beside the usual code and message. */

@@ -8,7 +8,8 @@ import { AppError, type ErrorIssue, NotFoundError, ValidationError } from '../..
 import { publishLive } from '../../lib/live-publish'
 import type { FileStorage } from '../../lib/storage'
 import type { EmailOutbox } from '../email/outbox'
-import { estimateLinkUrl, hashLinkToken, issueEstimateLink } from './estimate-links'
+import { hashToken } from '../../lib/tokens'
+import { estimateLinkUrl, issueEstimateLink } from './estimate-links'
 import { cancellationInfo } from './cancellation'
 import { answerEmail, confirmationCopyEmail, confirmationEmail, itemWords, questionEmail, renewedLinkEmail } from './portal.emails'
 import type { PortalRepo, Tx, VersionRow } from './portal.repo'
@@ -219,7 +220,7 @@ export function createPortalService(deps: PortalServiceDeps) {
      * link opens only this estimate for this customer (README, "Estimate links").
      */
     async open(req: Request, token: string): Promise<{ principal: Principal; estimateId: string; version: number }> {
-      const found = await repo.linkByHash(db, hashLinkToken(token))
+      const found = await repo.linkByHash(db, hashToken(token))
       if (!found) throw new AppError(400, 'link_invalid', 'We do not recognise this link. Please use the newest e-mail from the workshop, or ask them to send the estimate again.')
       const { link, version, estimate } = found
       const versions = await repo.versions(db, link.workshopId, estimate.id)
@@ -267,7 +268,7 @@ export function createPortalService(deps: PortalServiceDeps) {
      */
     async renew(req: Request, token: string): Promise<void> {
       try {
-        const found = await repo.linkByHash(db, hashLinkToken(token))
+        const found = await repo.linkByHash(db, hashToken(token))
         if (!found) {
           logger.info('fresh estimate link asked for with a token we never issued')
           return
