@@ -265,9 +265,14 @@ describe('e-mail outbox', () => {
       .returning()
     if (!orphan) throw new Error('no row')
 
-    await worker.sweep()
-    const job = await db.execute(sql`select 1 from pgboss.job where data->>'emailId' = ${orphan.id} and state in ('created', 'retry', 'active', 'completed')`)
-    expect(job.rows).toHaveLength(1)
+    // One process sweeps at a time (advisory lock): while another test file's worker holds it, a sweep
+    // does nothing, so sweep until one has run rather than trusting the first call.
+    const jobs = async () => (await db.execute(sql`select 1 from pgboss.job where data->>'emailId' = ${orphan.id} and state in ('created', 'retry', 'active', 'completed')`)).rows
+    await waitFor('a sweep to queue the orphan', async () => {
+      await worker.sweep()
+      return (await jobs()).length > 0
+    })
+    expect(await jobs()).toHaveLength(1)
     await waitForMail(msg.to, { timeoutMs: 20_000 })
     await waitFor('the swept message to be marked sent', async () => (await row(orphan.id))?.status === 'sent')
   })
