@@ -2,9 +2,10 @@ import js from '@eslint/js'
 import pluginVue from 'eslint-plugin-vue'
 import globals from 'globals'
 import tseslint from 'typescript-eslint'
+import prettier from 'eslint-config-prettier/flat'
 
 export default tseslint.config(
-  { ignores: ['dist/**', 'node_modules/**', '.data/**', 'drizzle/**', 'coverage/**', 'tests/e2e/screenshots/**'] },
+  { ignores: ['dist/**', 'node_modules/**', '.data/**', 'drizzle/**', 'coverage/**', 'test-results/**', 'tests/e2e/screenshots/**'] },
   js.configs.recommended,
   ...tseslint.configs.recommended,
   ...pluginVue.configs['flat/recommended'],
@@ -31,4 +32,6 @@ export default tseslint.config(
     files: ['docker-free-dev/**', 'server/cli/**', 'server/db/migrate.ts', 'server/db/seed.ts', 'tests/bench/**', 'tests/setup/**'],
     rules: { 'no-console': 'off' },
   },
+  // Layout is Prettier's (npm run format; npm run lint checks it): ESLint's own layout rules are off.
+  prettier,
 )

@@ -62,7 +62,13 @@ async function main() {
 
   children.push(startMaildev(ports.smtp, ports.mailWeb, true))
   const paymentsUrl = `http://127.0.0.1:${ports.payments}`
-  children.push(startPaymentsFake({ port: ports.payments, webhookUrl: `http://127.0.0.1:${ports.app}/api/payments/webhook`, webhookSecret: LOCAL_STRIPE_WEBHOOK_SECRET }))
+  children.push(
+    startPaymentsFake({
+      port: ports.payments,
+      webhookUrl: `http://127.0.0.1:${ports.app}/api/payments/webhook`,
+      webhookSecret: LOCAL_STRIPE_WEBHOOK_SECRET,
+    }),
+  )
 
   const appEnv = {
     NODE_ENV: dev ? 'development' : 'production',

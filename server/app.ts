@@ -58,7 +58,14 @@ import { createJobsRepo } from './modules/jobs/jobs.repo'
 import { createJobsService } from './modules/jobs/jobs.service'
 import { createVehiclesRepo } from './modules/vehicles/vehicles.repo'
 import { createVehiclesService } from './modules/vehicles/vehicles.service'
-import { CustomerInputSchema, CustomerListQuerySchema, JobInputSchema, JobListQuerySchema, VehicleInputSchema, VehicleListQuerySchema } from '../shared/schemas/records'
+import {
+  CustomerInputSchema,
+  CustomerListQuerySchema,
+  JobInputSchema,
+  JobListQuerySchema,
+  VehicleInputSchema,
+  VehicleListQuerySchema,
+} from '../shared/schemas/records'
 import type { Principal } from '../shared/schemas/auth'
 
 export interface AppDeps {
@@ -138,7 +145,13 @@ export function createApp(deps: AppDeps): express.Express {
     authRepo.loadPrincipal(stored.kind, stored.id).then((p: Principal | undefined) => done(null, p ?? false), done)
   })
 
-  const deposits = createDepositsService({ db, stripe: deps.stripe ?? createStripeClient({ secretKey: env.STRIPE_SECRET_KEY, apiBase: env.STRIPE_API_BASE }), env, logger, outbox: deps.outbox })
+  const deposits = createDepositsService({
+    db,
+    stripe: deps.stripe ?? createStripeClient({ secretKey: env.STRIPE_SECRET_KEY, apiBase: env.STRIPE_API_BASE }),
+    env,
+    logger,
+    outbox: deps.outbox,
+  })
   const storage = deps.storage ?? createLocalStorage(env.UPLOAD_DIR)
   const portalService = createPortalService({
     repo: createPortalRepo(db),
@@ -156,18 +169,17 @@ export function createApp(deps: AppDeps): express.Express {
   api.use(express.json({ limit: '1mb' }))
   api.use(createSessionMiddleware(env, pool))
   api.use(passport.session())
-  api.use(
-    absoluteLifetime(env, (req) =>
-      recordAudit(db, req, { action: 'session.expired', workshopId: req.user?.workshop.id ?? null }),
-    ),
-  )
+  api.use(absoluteLifetime(env, (req) => recordAudit(db, req, { action: 'session.expired', workshopId: req.user?.workshop.id ?? null })))
   api.use(csrfProtection(env.ALLOWED_ORIGINS))
 
   const pricingRepo = createPricingRepo(db)
   const groups = [
     systemRoutes(table, createSystemService(pool, deps.version ?? '0.0.0')),
     authRoutes(table, { passport, service: authService, db, limits: createAuthLimits(env, pool) }),
-    staffRoutes(table, { service: createStaffService({ repo: createStaffRepo(db), authRepo, db }), sendInviteLink: inviteLinkHandler(passport) }),
+    staffRoutes(table, {
+      service: createStaffService({ repo: createStaffRepo(db), authRepo, db }),
+      sendInviteLink: inviteLinkHandler(passport),
+    }),
     workshopRoutes(table, createWorkshopService({ repo: createWorkshopRepo(db), db })),
     auditRoutes(table, db),
     portalRoutes(table, db),
@@ -189,10 +201,26 @@ export function createApp(deps: AppDeps): express.Express {
       service: createVehiclesService(createVehiclesRepo(db)),
     }),
     ...inspectionsRoutes(table, createInspectionsService({ repo: createInspectionsRepo(db), storage })),
-    recordRoutes(table, '/jobs', { read: 'jobs:read', write: 'jobs:write', input: JobInputSchema, listQuery: JobListQuerySchema, service: createJobsService(createJobsRepo(db)) }),
+    recordRoutes(table, '/jobs', {
+      read: 'jobs:read',
+      write: 'jobs:write',
+      input: JobInputSchema,
+      listQuery: JobListQuerySchema,
+      service: createJobsService(createJobsRepo(db)),
+    }),
     liveRoutes(table, liveHub),
     paymentsRoutes(table, deposits),
-    ...estimatesRoutes(table, { db, service: createEstimatesService({ repo: createEstimatesRepo(db), labour: createLabourService({ repo: createLabourRepo(db), pricing: pricingRepo }), pricing: pricingRepo, outbox: deps.outbox, env, logger }) }),
+    ...estimatesRoutes(table, {
+      db,
+      service: createEstimatesService({
+        repo: createEstimatesRepo(db),
+        labour: createLabourService({ repo: createLabourRepo(db), pricing: pricingRepo }),
+        pricing: pricingRepo,
+        outbox: deps.outbox,
+        env,
+        logger,
+      }),
+    }),
   ]
   for (const g of groups) api.use(g.base || '/', g.router)
   api.use(apiNotFound)

@@ -2,9 +2,7 @@ import { randomBytes } from 'node:crypto'
 import { z } from 'zod'
 
 const port = z.coerce.number().int().min(1).max(65535)
-const booleanish = z
-  .enum(['true', 'false', '1', '0', 'yes', 'no'])
-  .transform((v) => v === 'true' || v === '1' || v === 'yes')
+const booleanish = z.enum(['true', 'false', '1', '0', 'yes', 'no']).transform((v) => v === 'true' || v === '1' || v === 'yes')
 
 /** What docker-free-dev/start.ts gives the payments fake; any sk_test_ key is an account of its own there. */
 export const LOCAL_STRIPE_SECRET_KEY = 'sk_test_local_payments_fake'
@@ -32,9 +30,19 @@ export const EnvSchema = z
     /** Signs session cookies and sign-in links; every server process must share it. */
     AUTH_SECRET: z.string().min(32, 'must be at least 32 characters').optional(),
     /** Sessions end after this long without a request… */
-    SESSION_IDLE_MINUTES: z.coerce.number().int().min(5).max(24 * 60).default(120),
+    SESSION_IDLE_MINUTES: z.coerce
+      .number()
+      .int()
+      .min(5)
+      .max(24 * 60)
+      .default(120),
     /** …and this long after sign-in, however busy. */
-    SESSION_ABSOLUTE_HOURS: z.coerce.number().int().min(1).max(24 * 7).default(12),
+    SESSION_ABSOLUTE_HOURS: z.coerce
+      .number()
+      .int()
+      .min(1)
+      .max(24 * 7)
+      .default(12),
     /** Secure cookies; defaults to on when PUBLIC_BASE_URL is https. */
     COOKIE_SECURE: booleanish.optional(),
     /** Extra origins allowed to send state-changing requests (the Vite dev server, say), comma-separated. */
@@ -44,9 +52,15 @@ export const EnvSchema = z
     /** Set to false only to exercise a workload without limits. */
     RATE_LIMITS: booleanish.default(true),
     /** Card payments. Outside production a key that only the local payments fake accepts is used when unset. */
-    STRIPE_SECRET_KEY: z.string().regex(/^sk_(test|live)_\w+$/, 'must be a Stripe secret key (sk_test_… or sk_live_…)').optional(),
+    STRIPE_SECRET_KEY: z
+      .string()
+      .regex(/^sk_(test|live)_\w+$/, 'must be a Stripe secret key (sk_test_… or sk_live_…)')
+      .optional(),
     /** Signs the provider's webhooks; outside production the local payments fake's secret is used when unset. */
-    STRIPE_WEBHOOK_SECRET: z.string().regex(/^whsec_\w+$/, 'must be a webhook signing secret (whsec_…)').optional(),
+    STRIPE_WEBHOOK_SECRET: z
+      .string()
+      .regex(/^whsec_\w+$/, 'must be a webhook signing secret (whsec_…)')
+      .optional(),
     /** Another address for the Stripe API (the local payments fake); unset, the SDK talks to Stripe. */
     STRIPE_API_BASE: z.url({ protocol: /^https?$/ }).optional(),
     /** Set by the local scripts when they run the payments fake; used as STRIPE_API_BASE when that is unset. */
@@ -57,8 +71,10 @@ export const EnvSchema = z
       ctx.addIssue({ code: 'custom', path: ['AUTH_SECRET'], message: 'is required in production behind HTTPS' })
     }
     // A production server must never fall back to the local fake's well-known secrets.
-    if (env.NODE_ENV === 'production' && !env.STRIPE_SECRET_KEY) ctx.addIssue({ code: 'custom', path: ['STRIPE_SECRET_KEY'], message: 'is required in production' })
-    if (env.NODE_ENV === 'production' && !env.STRIPE_WEBHOOK_SECRET) ctx.addIssue({ code: 'custom', path: ['STRIPE_WEBHOOK_SECRET'], message: 'is required in production' })
+    if (env.NODE_ENV === 'production' && !env.STRIPE_SECRET_KEY)
+      ctx.addIssue({ code: 'custom', path: ['STRIPE_SECRET_KEY'], message: 'is required in production' })
+    if (env.NODE_ENV === 'production' && !env.STRIPE_WEBHOOK_SECRET)
+      ctx.addIssue({ code: 'custom', path: ['STRIPE_WEBHOOK_SECRET'], message: 'is required in production' })
   })
   .transform((env) => {
     const publicBaseUrl = (env.PUBLIC_BASE_URL ?? `http://127.0.0.1:${env.PORT}`).replace(/\/$/, '')
@@ -71,7 +87,12 @@ export const EnvSchema = z
       STRIPE_WEBHOOK_SECRET: env.STRIPE_WEBHOOK_SECRET ?? LOCAL_STRIPE_WEBHOOK_SECRET,
       STRIPE_API_BASE: env.STRIPE_API_BASE ?? env.PAYMENTS_FAKE_URL,
       COOKIE_SECURE: env.COOKIE_SECURE ?? publicBaseUrl.startsWith('https:'),
-      ALLOWED_ORIGINS: [new URL(publicBaseUrl).origin, ...env.EXTRA_ORIGINS.split(',').map((o) => o.trim()).filter(Boolean)],
+      ALLOWED_ORIGINS: [
+        new URL(publicBaseUrl).origin,
+        ...env.EXTRA_ORIGINS.split(',')
+          .map((o) => o.trim())
+          .filter(Boolean),
+      ],
     }
   })
 

@@ -28,7 +28,13 @@ const liveHub = createLiveHub({ connectionString: env.DATABASE_URL, logger })
 const mailer = createMailer(env)
 const jobs = createQueue(env.DATABASE_URL, logger)
 const outbox = createEmailOutbox({ db, jobs })
-const emailWorker = createEmailWorker({ db, jobs, mailer, logger, attachments: { 'estimate-pdf': async (a) => (await renderVersionPdf(db, a.workshopId, a.versionId)).bytes } })
+const emailWorker = createEmailWorker({
+  db,
+  jobs,
+  mailer,
+  logger,
+  attachments: { 'estimate-pdf': async (a) => (await renderVersionPdf(db, a.workshopId, a.versionId)).bytes },
+})
 emailWorker.start()
 const app = createApp({ env, db, pool, logger, version: pkg.version, liveHub, mailer, outbox })
 

@@ -28,9 +28,7 @@ export const EXCLUDED_CURRENCIES: Readonly<Record<string, string>> = {
 }
 
 const currencies: ReadonlyMap<string, Currency> = new Map(
-  (Object.values(dineroCurrencies) as Currency[])
-    .filter((c) => !Object.hasOwn(EXCLUDED_CURRENCIES, c.code))
-    .map((c) => [c.code, c]),
+  (Object.values(dineroCurrencies) as Currency[]).filter((c) => !Object.hasOwn(EXCLUDED_CURRENCIES, c.code)).map((c) => [c.code, c]),
 )
 
 /** ISO 4217 codes the engine accepts, sorted. */

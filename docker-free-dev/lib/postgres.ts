@@ -13,7 +13,10 @@ export function findPgBin(name: 'pg_ctl' | 'initdb' | 'postgres'): string {
   if (onPath) return onPath
   const root = '/usr/lib/postgresql'
   const majors = fs.existsSync(root)
-    ? fs.readdirSync(root).filter((d) => /^\d+$/.test(d)).sort((a, b) => Number(b) - Number(a))
+    ? fs
+        .readdirSync(root)
+        .filter((d) => /^\d+$/.test(d))
+        .sort((a, b) => Number(b) - Number(a))
     : []
   for (const major of majors) {
     const candidate = path.join(root, major, 'bin', name)
@@ -79,7 +82,15 @@ export async function startPostgres(opts: PostgresOptions): Promise<PostgresHand
     }
     try {
       runAsOwner(findPgBin('initdb'), [
-        '-D', dataDir, '-U', user, '--auth=scram-sha-256', `--pwfile=${pwfile}`, '-E', 'UTF8', '--locale=C.UTF-8',
+        '-D',
+        dataDir,
+        '-U',
+        user,
+        '--auth=scram-sha-256',
+        `--pwfile=${pwfile}`,
+        '-E',
+        'UTF8',
+        '--locale=C.UTF-8',
       ])
     } finally {
       fs.rmSync(pwfile, { force: true })

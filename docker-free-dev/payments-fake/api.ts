@@ -9,7 +9,15 @@ import {
   type FakeDeps,
   getSession,
 } from './checkout'
-import { authenticationError, FakeStripeError, idempotencyError, invalidRequest, parameterInvalid, resourceMissing, unrecognizedUrl } from './errors'
+import {
+  authenticationError,
+  FakeStripeError,
+  idempotencyError,
+  invalidRequest,
+  parameterInvalid,
+  resourceMissing,
+  unrecognizedUrl,
+} from './errors'
 import { canonicalParams, ParamReader } from './params'
 import { createRefund, expandRefund } from './refunds'
 import { type Account, randomId, type RequestInfo } from './state'
@@ -37,10 +45,15 @@ export function secretKeyOf(req: Request): string {
   const bearer = /^Bearer\s+(\S+)\s*$/i.exec(header)
   const basic = /^Basic\s+(\S+)\s*$/i.exec(header)
   if (bearer) key = bearer[1]
-  else if (basic) key = Buffer.from(basic[1] ?? '', 'base64').toString('utf8').split(':')[0]
+  else if (basic)
+    key = Buffer.from(basic[1] ?? '', 'base64')
+      .toString('utf8')
+      .split(':')[0]
   if (!key) throw authenticationError(NO_KEY_MESSAGE)
   if (key.startsWith('sk_live_') || key.startsWith('rk_live_')) {
-    throw authenticationError('The payments fake refuses live-mode keys: use a test key (sk_test_…) here, and never send a live key to a fake.')
+    throw authenticationError(
+      'The payments fake refuses live-mode keys: use a test key (sk_test_…) here, and never send a live key to a fake.',
+    )
   }
   if (!/^sk_test_\w+$/.test(key)) throw authenticationError(`Invalid API Key provided: ${mask(key)}`)
   return key
@@ -63,7 +76,10 @@ interface RouterOptions {
 }
 
 function send(res: Response, status: number, body: unknown): void {
-  res.status(status).type('application/json').send(JSON.stringify(body, null, 2))
+  res
+    .status(status)
+    .type('application/json')
+    .send(JSON.stringify(body, null, 2))
 }
 
 /** Stripe's v1 API for the subset the product uses; every answer is a `stripe`-typed object or Stripe's error shape. */
@@ -170,7 +186,12 @@ export function createApiRouter({ deps, pageBaseUrl, log }: RouterOptions): expr
   router.use((err: unknown, _req: Request, res: Response, _next: NextFunction) => {
     const status = typeof err === 'object' && err !== null && 'status' in err && typeof err.status === 'number' ? err.status : 500
     if (status < 500) {
-      send(res, 400, { error: { type: 'invalid_request_error', message: 'Invalid request body: send parameters form-encoded (application/x-www-form-urlencoded).' } })
+      send(res, 400, {
+        error: {
+          type: 'invalid_request_error',
+          message: 'Invalid request body: send parameters form-encoded (application/x-www-form-urlencoded).',
+        },
+      })
       return
     }
     log(`payments fake failed on a request: ${err instanceof Error ? (err.stack ?? err.message) : String(err)}`)
@@ -188,7 +209,15 @@ function readExpandOnly(params: ParamReader): string[] {
 }
 
 /** Stripe keeps the first answer for a key, for 24 hours, once the endpoint began executing. */
-function remember(account: Account, key: string | null, req: Request, params: string, status: number, body: unknown, requestId: string): void {
+function remember(
+  account: Account,
+  key: string | null,
+  req: Request,
+  params: string,
+  status: number,
+  body: unknown,
+  requestId: string,
+): void {
   if (key === null) return
   account.idempotency.set(key, { method: req.method, path: pathOf(req), params, status, body, requestId, createdAtMs: Date.now() })
 }

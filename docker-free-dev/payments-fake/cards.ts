@@ -28,58 +28,184 @@ export interface TestCard {
 }
 
 const generic: CardDecline = { code: 'card_declined', declineCode: 'generic_decline', message: 'Your card was declined.' }
-const insufficientFunds: CardDecline = { code: 'card_declined', declineCode: 'insufficient_funds', message: 'Your card has insufficient funds.' }
+const insufficientFunds: CardDecline = {
+  code: 'card_declined',
+  declineCode: 'insufficient_funds',
+  message: 'Your card has insufficient funds.',
+}
 const succeed = { kind: 'succeed' } as const
-const authenticateThen = (after: CardBehaviour & { kind: 'succeed' | 'decline' }): CardBehaviour => ({ kind: 'authenticate', afterAuthentication: after })
+const authenticateThen = (after: CardBehaviour & { kind: 'succeed' | 'decline' }): CardBehaviour => ({
+  kind: 'authenticate',
+  afterAuthentication: after,
+})
 
 export const TEST_CARDS: readonly TestCard[] = [
   { number: '4242424242424242', brand: 'visa', funding: 'credit', country: 'US', label: 'Visa, succeeds', behaviour: succeed },
   { number: '4000056655665556', brand: 'visa', funding: 'debit', country: 'US', label: 'Visa debit, succeeds', behaviour: succeed },
-  { number: '4000008260000000', brand: 'visa', funding: 'credit', country: 'GB', label: 'Visa (United Kingdom), succeeds', behaviour: succeed },
-  { number: '4000058260000005', brand: 'visa', funding: 'debit', country: 'GB', label: 'Visa debit (United Kingdom), succeeds', behaviour: succeed },
+  {
+    number: '4000008260000000',
+    brand: 'visa',
+    funding: 'credit',
+    country: 'GB',
+    label: 'Visa (United Kingdom), succeeds',
+    behaviour: succeed,
+  },
+  {
+    number: '4000058260000005',
+    brand: 'visa',
+    funding: 'debit',
+    country: 'GB',
+    label: 'Visa debit (United Kingdom), succeeds',
+    behaviour: succeed,
+  },
   { number: '5555555555554444', brand: 'mastercard', funding: 'credit', country: 'US', label: 'Mastercard, succeeds', behaviour: succeed },
-  { number: '2223003122003222', brand: 'mastercard', funding: 'credit', country: 'US', label: 'Mastercard (2-series), succeeds', behaviour: succeed },
-  { number: '5200828282828210', brand: 'mastercard', funding: 'debit', country: 'US', label: 'Mastercard debit, succeeds', behaviour: succeed },
-  { number: '5105105105105100', brand: 'mastercard', funding: 'prepaid', country: 'US', label: 'Mastercard prepaid, succeeds', behaviour: succeed },
+  {
+    number: '2223003122003222',
+    brand: 'mastercard',
+    funding: 'credit',
+    country: 'US',
+    label: 'Mastercard (2-series), succeeds',
+    behaviour: succeed,
+  },
+  {
+    number: '5200828282828210',
+    brand: 'mastercard',
+    funding: 'debit',
+    country: 'US',
+    label: 'Mastercard debit, succeeds',
+    behaviour: succeed,
+  },
+  {
+    number: '5105105105105100',
+    brand: 'mastercard',
+    funding: 'prepaid',
+    country: 'US',
+    label: 'Mastercard prepaid, succeeds',
+    behaviour: succeed,
+  },
   { number: '378282246310005', brand: 'amex', funding: 'credit', country: 'US', label: 'American Express, succeeds', behaviour: succeed },
   { number: '371449635398431', brand: 'amex', funding: 'credit', country: 'US', label: 'American Express, succeeds', behaviour: succeed },
   { number: '6011111111111117', brand: 'discover', funding: 'credit', country: 'US', label: 'Discover, succeeds', behaviour: succeed },
-  { number: '4000000000000002', brand: 'visa', funding: 'credit', country: 'US', label: 'Declined (generic decline)', behaviour: { kind: 'decline', decline: generic } },
-  { number: '4000000000009995', brand: 'visa', funding: 'credit', country: 'US', label: 'Declined (insufficient funds)', behaviour: { kind: 'decline', decline: insufficientFunds } },
   {
-    number: '4000000000009987', brand: 'visa', funding: 'credit', country: 'US', label: 'Declined (lost card)',
+    number: '4000000000000002',
+    brand: 'visa',
+    funding: 'credit',
+    country: 'US',
+    label: 'Declined (generic decline)',
+    behaviour: { kind: 'decline', decline: generic },
+  },
+  {
+    number: '4000000000009995',
+    brand: 'visa',
+    funding: 'credit',
+    country: 'US',
+    label: 'Declined (insufficient funds)',
+    behaviour: { kind: 'decline', decline: insufficientFunds },
+  },
+  {
+    number: '4000000000009987',
+    brand: 'visa',
+    funding: 'credit',
+    country: 'US',
+    label: 'Declined (lost card)',
     behaviour: { kind: 'decline', decline: { code: 'card_declined', declineCode: 'lost_card', message: 'Your card was declined.' } },
   },
   {
-    number: '4000000000009979', brand: 'visa', funding: 'credit', country: 'US', label: 'Declined (stolen card)',
+    number: '4000000000009979',
+    brand: 'visa',
+    funding: 'credit',
+    country: 'US',
+    label: 'Declined (stolen card)',
     behaviour: { kind: 'decline', decline: { code: 'card_declined', declineCode: 'stolen_card', message: 'Your card was declined.' } },
   },
   {
-    number: '4000000000006975', brand: 'visa', funding: 'credit', country: 'US', label: 'Declined (velocity limit exceeded)',
-    behaviour: { kind: 'decline', decline: { code: 'card_declined', declineCode: 'card_velocity_exceeded', message: 'Your card was declined for making repeated attempts too frequently or exceeding its amount limit.' } },
+    number: '4000000000006975',
+    brand: 'visa',
+    funding: 'credit',
+    country: 'US',
+    label: 'Declined (velocity limit exceeded)',
+    behaviour: {
+      kind: 'decline',
+      decline: {
+        code: 'card_declined',
+        declineCode: 'card_velocity_exceeded',
+        message: 'Your card was declined for making repeated attempts too frequently or exceeding its amount limit.',
+      },
+    },
   },
   {
-    number: '4000000000000069', brand: 'visa', funding: 'credit', country: 'US', label: 'Declined (expired card)',
+    number: '4000000000000069',
+    brand: 'visa',
+    funding: 'credit',
+    country: 'US',
+    label: 'Declined (expired card)',
     behaviour: { kind: 'decline', decline: { code: 'expired_card', message: 'Your card has expired.' } },
   },
   {
-    number: '4000000000000127', brand: 'visa', funding: 'credit', country: 'US', label: 'Declined (incorrect CVC)',
+    number: '4000000000000127',
+    brand: 'visa',
+    funding: 'credit',
+    country: 'US',
+    label: 'Declined (incorrect CVC)',
     behaviour: { kind: 'decline', decline: { code: 'incorrect_cvc', message: "Your card's security code is incorrect." } },
   },
   {
-    number: '4000000000000119', brand: 'visa', funding: 'credit', country: 'US', label: 'Declined (processing error)',
-    behaviour: { kind: 'decline', decline: { code: 'processing_error', message: 'An error occurred while processing your card. Try again in a little bit.' } },
+    number: '4000000000000119',
+    brand: 'visa',
+    funding: 'credit',
+    country: 'US',
+    label: 'Declined (processing error)',
+    behaviour: {
+      kind: 'decline',
+      decline: { code: 'processing_error', message: 'An error occurred while processing your card. Try again in a little bit.' },
+    },
   },
-  { number: '4000002760003184', brand: 'visa', funding: 'credit', country: 'US', label: 'Asks for authentication on every payment', behaviour: authenticateThen(succeed) },
-  { number: '4000002500003155', brand: 'visa', funding: 'credit', country: 'US', label: 'Asks for authentication (on-session payments)', behaviour: authenticateThen(succeed) },
-  { number: '4000000000003220', brand: 'visa', funding: 'credit', country: 'US', label: 'Asks for 3D Secure 2 authentication', behaviour: authenticateThen(succeed) },
-  { number: '4000000000003063', brand: 'visa', funding: 'credit', country: 'US', label: 'Asks for 3D Secure authentication', behaviour: authenticateThen(succeed) },
   {
-    number: '4000008260003178', brand: 'visa', funding: 'credit', country: 'GB', label: 'Asks for authentication, then declined (insufficient funds)',
+    number: '4000002760003184',
+    brand: 'visa',
+    funding: 'credit',
+    country: 'US',
+    label: 'Asks for authentication on every payment',
+    behaviour: authenticateThen(succeed),
+  },
+  {
+    number: '4000002500003155',
+    brand: 'visa',
+    funding: 'credit',
+    country: 'US',
+    label: 'Asks for authentication (on-session payments)',
+    behaviour: authenticateThen(succeed),
+  },
+  {
+    number: '4000000000003220',
+    brand: 'visa',
+    funding: 'credit',
+    country: 'US',
+    label: 'Asks for 3D Secure 2 authentication',
+    behaviour: authenticateThen(succeed),
+  },
+  {
+    number: '4000000000003063',
+    brand: 'visa',
+    funding: 'credit',
+    country: 'US',
+    label: 'Asks for 3D Secure authentication',
+    behaviour: authenticateThen(succeed),
+  },
+  {
+    number: '4000008260003178',
+    brand: 'visa',
+    funding: 'credit',
+    country: 'GB',
+    label: 'Asks for authentication, then declined (insufficient funds)',
     behaviour: authenticateThen({ kind: 'decline', decline: insufficientFunds }),
   },
   {
-    number: '4000008400001629', brand: 'visa', funding: 'credit', country: 'US', label: 'Asks for authentication, then declined',
+    number: '4000008400001629',
+    brand: 'visa',
+    funding: 'credit',
+    country: 'US',
+    label: 'Asks for authentication, then declined',
     behaviour: authenticateThen({ kind: 'decline', decline: generic }),
   },
 ]
@@ -88,7 +214,8 @@ export const TEST_CARDS: readonly TestCard[] = [
 export const LIVE_CARD_IN_TEST_MODE: CardDecline = {
   code: 'card_declined',
   declineCode: 'test_mode_live_card',
-  message: 'Your card was declined. Your request was in test mode, but used a non test (live) card. For a list of valid test cards, visit: https://stripe.com/docs/testing.',
+  message:
+    'Your card was declined. Your request was in test mode, but used a non test (live) card. For a list of valid test cards, visit: https://stripe.com/docs/testing.',
 }
 
 /** Stripe's wording when a 3D Secure challenge is failed (error code payment_intent_authentication_failure). */
@@ -135,7 +262,8 @@ export function readCardForm(
 ): { card: CardInput; errors: [] } | { card?: undefined; errors: Array<{ field: CardField; message: string }> } {
   const errors: Array<{ field: CardField; message: string }> = []
   const number = (form.number ?? '').replace(/[\s-]/g, '')
-  if (number === '' || (/^\d+$/.test(number) && number.length < 13)) errors.push({ field: 'card_number', message: 'Your card number is incomplete.' })
+  if (number === '' || (/^\d+$/.test(number) && number.length < 13))
+    errors.push({ field: 'card_number', message: 'Your card number is incomplete.' })
   else if (!/^\d{13,19}$/.test(number) || !luhnValid(number)) errors.push({ field: 'card_number', message: 'Your card number is invalid.' })
 
   let expMonth = 0
@@ -150,7 +278,8 @@ export function readCardForm(
     const thisMonth = now.getUTCMonth() + 1
     if (expMonth < 1 || expMonth > 12) errors.push({ field: 'card_expiry', message: "Your card's expiration date is invalid." })
     else if (expYear < thisYear) errors.push({ field: 'card_expiry', message: "Your card's expiration year is in the past." })
-    else if (expYear === thisYear && expMonth < thisMonth) errors.push({ field: 'card_expiry', message: "Your card's expiration date is in the past." })
+    else if (expYear === thisYear && expMonth < thisMonth)
+      errors.push({ field: 'card_expiry', message: "Your card's expiration date is in the past." })
     else if (expYear > thisYear + 50) errors.push({ field: 'card_expiry', message: "Your card's expiration year is invalid." })
   }
 

@@ -1,5 +1,13 @@
 import type Stripe from 'stripe'
-import { AUTHENTICATION_FAILED_MESSAGE, type CardBehaviour, type CardDecline, type CardInput, LIVE_CARD_IN_TEST_MODE, type TestCard, testCardFor } from './cards'
+import {
+  AUTHENTICATION_FAILED_MESSAGE,
+  type CardBehaviour,
+  type CardDecline,
+  type CardInput,
+  LIVE_CARD_IN_TEST_MODE,
+  type TestCard,
+  testCardFor,
+} from './cards'
 import { invalidRequest, parameterInvalid, parameterMissing, resourceMissing } from './errors'
 import { formatAmount, isKnownCurrency, MAXIMUM_AMOUNT, minimumCharge } from './money'
 import { declineError, type EventPayload, newCharge, newCheckoutSession, newPaymentIntent } from './objects'
@@ -63,7 +71,10 @@ export function expandPaymentIntent(account: Account, intent: Stripe.PaymentInte
 }
 
 export function notExpandable(path: string) {
-  return parameterInvalid('expand', `This property cannot be expanded (${path}). (The payments fake expands only the fields listed in docker-free-dev/README.md.)`)
+  return parameterInvalid(
+    'expand',
+    `This property cannot be expanded (${path}). (The payments fake expands only the fields listed in docker-free-dev/README.md.)`,
+  )
 }
 
 function readLineItem(item: ParamReader): { currency: string; line: LineItemRecord } {
@@ -74,7 +85,8 @@ function readLineItem(item: ParamReader): { currency: string; line: LineItemReco
   if (!priceData) throw parameterMissing(item.name('price_data'))
   const currency = priceData.requiredString('currency').toLowerCase()
   if (!isKnownCurrency(currency)) throw parameterInvalid(priceData.name('currency'), `Invalid currency: ${currency}.`)
-  if (priceData.has('product')) throw parameterInvalid(priceData.name('product'), 'The payments fake keeps no Product objects: use product_data.')
+  if (priceData.has('product'))
+    throw parameterInvalid(priceData.name('product'), 'The payments fake keeps no Product objects: use product_data.')
   if (priceData.has('recurring')) {
     throw parameterInvalid(
       priceData.name('recurring'),
@@ -98,8 +110,48 @@ function readLineItem(item: ParamReader): { currency: string; line: LineItemReco
 
 /** Checkout's page languages, from Stripe.Checkout.SessionCreateParams.Locale in the pinned SDK. */
 const LOCALES = [
-  'auto', 'bg', 'cs', 'da', 'de', 'el', 'en', 'en-GB', 'es', 'es-419', 'et', 'fi', 'fil', 'fr', 'fr-CA', 'hi-IN', 'hr', 'hu', 'id', 'it', 'ja',
-  'ko', 'lt', 'lv', 'ms', 'mt', 'nb', 'nl', 'pl', 'pt', 'pt-BR', 'ro', 'ru', 'sk', 'sl', 'sv', 'th', 'tr', 'vi', 'zh', 'zh-HK', 'zh-TW',
+  'auto',
+  'bg',
+  'cs',
+  'da',
+  'de',
+  'el',
+  'en',
+  'en-GB',
+  'es',
+  'es-419',
+  'et',
+  'fi',
+  'fil',
+  'fr',
+  'fr-CA',
+  'hi-IN',
+  'hr',
+  'hu',
+  'id',
+  'it',
+  'ja',
+  'ko',
+  'lt',
+  'lv',
+  'ms',
+  'mt',
+  'nb',
+  'nl',
+  'pl',
+  'pt',
+  'pt-BR',
+  'ro',
+  'ru',
+  'sk',
+  'sl',
+  'sv',
+  'th',
+  'tr',
+  'vi',
+  'zh',
+  'zh-HK',
+  'zh-TW',
 ] as const
 
 /**
@@ -107,7 +159,12 @@ const LOCALES = [
  * price_data line items (Checkout Sessions API, https://docs.stripe.com/api/checkout/sessions/create).
  * Like Stripe since API version 2022-08-01, no PaymentIntent exists until the customer pays.
  */
-export function createCheckoutSession(deps: FakeDeps, account: Account, params: ParamReader, pageBaseUrl: string): { session: Stripe.Checkout.Session; expand: string[] } {
+export function createCheckoutSession(
+  deps: FakeDeps,
+  account: Account,
+  params: ParamReader,
+  pageBaseUrl: string,
+): { session: Stripe.Checkout.Session; expand: string[] } {
   const mode = params.optionalString('mode') ?? 'payment'
   if (mode !== 'payment') {
     throw parameterInvalid('mode', `The payments fake supports only mode=payment (got ${mode}).`)
@@ -162,7 +219,11 @@ export function createCheckoutSession(deps: FakeDeps, account: Account, params: 
   const sessionCurrency = first.currency
   const amountTotal = lineItems.reduce((sum, item) => sum + item.unitAmount * item.quantity, 0)
   if (amountTotal > MAXIMUM_AMOUNT) {
-    throw parameterInvalid('line_items', `The total amount must be at most ${formatAmount(MAXIMUM_AMOUNT, sessionCurrency, 'en-US')}.`, 'amount_too_large')
+    throw parameterInvalid(
+      'line_items',
+      `The total amount must be at most ${formatAmount(MAXIMUM_AMOUNT, sessionCurrency, 'en-US')}.`,
+      'amount_too_large',
+    )
   }
   const minimum = minimumCharge(sessionCurrency) ?? 1
   if (amountTotal < minimum) {
@@ -224,7 +285,9 @@ export function expireSession(deps: FakeDeps, account: Account, record: SessionR
 export function expireSessionByApi(deps: FakeDeps, account: Account, id: string, request: RequestInfo): Stripe.Checkout.Session {
   const record = getSession(account, id)
   if (record.session.status !== 'open') {
-    throw invalidRequest(`Only Checkout Sessions with a status in ["open"] can be expired. This Checkout Session has a status of \`${record.session.status}\`.`)
+    throw invalidRequest(
+      `Only Checkout Sessions with a status in ["open"] can be expired. This Checkout Session has a status of \`${record.session.status}\`.`,
+    )
   }
   expireSession(deps, account, record, request)
   return record.session
@@ -264,14 +327,27 @@ function intentFor(account: Account, record: SessionRecord): Stripe.PaymentInten
 }
 
 function statementDescriptor(merchant: string): string {
-  return merchant.replace(/[<>\\'"*]/g, '').toUpperCase().slice(0, 22).trim() || 'TEST MERCHANT'
+  return (
+    merchant
+      .replace(/[<>\\'"*]/g, '')
+      .toUpperCase()
+      .slice(0, 22)
+      .trim() || 'TEST MERCHANT'
+  )
 }
 
 function settle(
   deps: FakeDeps,
   account: Account,
   record: SessionRecord,
-  attempt: { intent: Stripe.PaymentIntent; card: TestCard; input: CardInput; email: string | null; authenticated: boolean; decline: CardDecline | null },
+  attempt: {
+    intent: Stripe.PaymentIntent
+    card: TestCard
+    input: CardInput
+    email: string | null
+    authenticated: boolean
+    decline: CardDecline | null
+  },
 ): PaymentOutcome {
   const { intent, decline } = attempt
   const paymentMethodId = randomId('pm_')
@@ -320,7 +396,13 @@ function settle(
 }
 
 /** The customer submits a well-formed card on the payment page; the test card decides what happens. */
-export function submitPayment(deps: FakeDeps, account: Account, record: SessionRecord, input: CardInput, email: string | null): PaymentOutcome {
+export function submitPayment(
+  deps: FakeDeps,
+  account: Account,
+  record: SessionRecord,
+  input: CardInput,
+  email: string | null,
+): PaymentOutcome {
   if (record.session.status !== 'open') return { kind: 'not_open' }
   delete record.pendingAuthentication
   const intent = intentFor(account, record)
@@ -339,11 +421,24 @@ export function submitPayment(deps: FakeDeps, account: Account, record: SessionR
     record.pendingAuthentication = { id: challengeId, paymentIntentId: intent.id, card, input, email }
     return { kind: 'authentication_required', challengeId }
   }
-  return settle(deps, account, record, { intent, card, input, email, authenticated: false, decline: behaviour.kind === 'decline' ? behaviour.decline : null })
+  return settle(deps, account, record, {
+    intent,
+    card,
+    input,
+    email,
+    authenticated: false,
+    decline: behaviour.kind === 'decline' ? behaviour.decline : null,
+  })
 }
 
 /** The answer to a 3D Secure challenge (the test page's "Complete" or "Fail" button). */
-export function answerAuthentication(deps: FakeDeps, account: Account, record: SessionRecord, challengeId: string, passed: boolean): PaymentOutcome | { kind: 'no_challenge' } {
+export function answerAuthentication(
+  deps: FakeDeps,
+  account: Account,
+  record: SessionRecord,
+  challengeId: string,
+  passed: boolean,
+): PaymentOutcome | { kind: 'no_challenge' } {
   if (record.session.status !== 'open') return { kind: 'not_open' }
   const pending = record.pendingAuthentication
   if (!pending || pending.id !== challengeId) return { kind: 'no_challenge' }
@@ -362,7 +457,10 @@ export function answerAuthentication(deps: FakeDeps, account: Account, record: S
       payment_method_type: 'card',
     }
     deps.emit(account, { type: 'payment_intent.payment_failed', object: intent }, NO_REQUEST)
-    return { kind: 'declined', message: 'We are unable to authenticate your payment method. Please choose a different payment method and try again.' }
+    return {
+      kind: 'declined',
+      message: 'We are unable to authenticate your payment method. Please choose a different payment method and try again.',
+    }
   }
   const after = pending.card.behaviour.kind === 'authenticate' ? pending.card.behaviour.afterAuthentication : { kind: 'succeed' as const }
   return settle(deps, account, record, {

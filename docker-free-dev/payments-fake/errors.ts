@@ -26,7 +26,13 @@ const docUrl = (code: string) => `https://stripe.com/docs/error-codes/${code.rep
 export function parameterMissing(param: string): FakeStripeError {
   return new FakeStripeError(
     400,
-    { type: 'invalid_request_error', code: 'parameter_missing', doc_url: docUrl('parameter_missing'), message: `Missing required param: ${param}.`, param },
+    {
+      type: 'invalid_request_error',
+      code: 'parameter_missing',
+      doc_url: docUrl('parameter_missing'),
+      message: `Missing required param: ${param}.`,
+      param,
+    },
     'validation',
   )
 }

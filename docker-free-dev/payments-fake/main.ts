@@ -38,13 +38,15 @@ try {
   fail(err instanceof Error ? err.message : String(err))
 }
 
-const running = await fake.listen(port).catch((err: NodeJS.ErrnoException) =>
-  fail(
-    err.code === 'EADDRINUSE'
-      ? `port ${port} on 127.0.0.1 is already in use; stop what uses it or choose another with PAYMENTS_FAKE_PORT=<port>`
-      : err.message,
-  ),
-)
+const running = await fake
+  .listen(port)
+  .catch((err: NodeJS.ErrnoException) =>
+    fail(
+      err.code === 'EADDRINUSE'
+        ? `port ${port} on 127.0.0.1 is already in use; stop what uses it or choose another with PAYMENTS_FAKE_PORT=<port>`
+        : err.message,
+    ),
+  )
 console.log(`payments fake listening on ${running.url}`)
 
 let stopping = false

@@ -6,14 +6,52 @@
  * the fake stands in for Stripe and so keeps Stripe's view apart from ours.
  */
 
-const ZERO_DECIMAL = new Set(['bif', 'clp', 'djf', 'gnf', 'jpy', 'kmf', 'krw', 'mga', 'pyg', 'rwf', 'ugx', 'vnd', 'vuv', 'xaf', 'xof', 'xpf'])
+const ZERO_DECIMAL = new Set([
+  'bif',
+  'clp',
+  'djf',
+  'gnf',
+  'jpy',
+  'kmf',
+  'krw',
+  'mga',
+  'pyg',
+  'rwf',
+  'ugx',
+  'vnd',
+  'vuv',
+  'xaf',
+  'xof',
+  'xpf',
+])
 const THREE_DECIMAL = new Set(['bhd', 'jod', 'kwd', 'omr', 'tnd'])
 
 /** Minimum charge in minor units for the currencies whose minimum Stripe lists as a fixed amount. */
 const MINIMUM_CHARGE: Record<string, number> = {
-  usd: 50, aed: 200, aud: 50, bgn: 100, brl: 50, cad: 50, chf: 50, czk: 1500, dkk: 250, eur: 50,
-  gbp: 30, hkd: 400, huf: 17500, inr: 50, jpy: 50, mxn: 1000, myr: 200, nok: 300, nzd: 50,
-  pln: 200, ron: 200, sek: 300, sgd: 50, thb: 1000,
+  usd: 50,
+  aed: 200,
+  aud: 50,
+  bgn: 100,
+  brl: 50,
+  cad: 50,
+  chf: 50,
+  czk: 1500,
+  dkk: 250,
+  eur: 50,
+  gbp: 30,
+  hkd: 400,
+  huf: 17500,
+  inr: 50,
+  jpy: 50,
+  mxn: 1000,
+  myr: 200,
+  nok: 300,
+  nzd: 50,
+  pln: 200,
+  ron: 200,
+  sek: 300,
+  sgd: 50,
+  thb: 1000,
 }
 
 export const MAXIMUM_AMOUNT = 99_999_999

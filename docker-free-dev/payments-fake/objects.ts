@@ -159,7 +159,12 @@ export function newPaymentIntent(input: {
   }
 }
 
-function cardDetails(card: TestCard, input: CardInput, amountAuthorized: number | null, authenticated: boolean): Stripe.Charge.PaymentMethodDetails {
+function cardDetails(
+  card: TestCard,
+  input: CardInput,
+  amountAuthorized: number | null,
+  authenticated: boolean,
+): Stripe.Charge.PaymentMethodDetails {
   return {
     type: 'card',
     card: {
@@ -294,9 +299,13 @@ export function newRefund(input: {
     currency: input.charge.currency,
     customer: null,
     customer_account: null,
-    destination_details: { type: 'card', card: { reference_status: 'pending', reference_type: 'acquirer_reference_number', type: 'refund' } },
+    destination_details: {
+      type: 'card',
+      card: { reference_status: 'pending', reference_type: 'acquirer_reference_number', type: 'refund' },
+    },
     metadata: input.metadata,
-    payment_intent: typeof input.charge.payment_intent === 'string' ? input.charge.payment_intent : (input.charge.payment_intent?.id ?? null),
+    payment_intent:
+      typeof input.charge.payment_intent === 'string' ? input.charge.payment_intent : (input.charge.payment_intent?.id ?? null),
     payment_method: input.charge.payment_method,
     reason: input.reason,
     receipt_number: null,

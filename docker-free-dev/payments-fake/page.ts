@@ -72,9 +72,10 @@ function summary(view: PageView): string {
   const money = (amount: number) => escapeHtml(formatAmount(amount, total.currency, view.locale))
   const items = lineItems
     .map(
-      (item) => `<li><span>${escapeHtml(item.name)}${item.quantity > 1 ? ` × ${item.quantity}` : ''}${
-        item.description ? `<span class="desc">${escapeHtml(item.description)}</span>` : ''
-      }</span><span>${money(item.unitAmount * item.quantity)}</span></li>`,
+      (item) =>
+        `<li><span>${escapeHtml(item.name)}${item.quantity > 1 ? ` × ${item.quantity}` : ''}${
+          item.description ? `<span class="desc">${escapeHtml(item.description)}</span>` : ''
+        }</span><span>${money(item.unitAmount * item.quantity)}</span></li>`,
     )
     .join('')
   return `<h1>${escapeHtml(view.merchant)}</h1>
@@ -93,13 +94,7 @@ export interface FormState {
   alert?: string
 }
 
-function field(
-  id: CardField | 'email',
-  label: string,
-  attrs: string,
-  state: FormState,
-  value = '',
-): string {
+function field(id: CardField | 'email', label: string, attrs: string, state: FormState, value = ''): string {
   const error = state.fieldErrors?.[id]
   return `<div><label for="${id}">${escapeHtml(label)}</label>
 <input id="${id}" name="${id}" ${attrs} value="${escapeHtml(value)}"${error ? ` aria-invalid="true" aria-describedby="${id}-error"` : ''}>
@@ -120,7 +115,9 @@ export function renderPaymentPage(view: PageView, state: FormState = {}): string
     session.customer_email === null
       ? field('email', 'Email', 'type="email" autocomplete="email" required', state, state.email ?? '')
       : `<p>Receipt to <strong>${escapeHtml(session.customer_email)}</strong></p>`
-  const cards = TEST_CARDS.map((c) => `<tr><td><code>${c.number.replace(/(\d{4})(?=\d)/g, '$1 ')}</code></td><td>${escapeHtml(c.label)}</td></tr>`).join('')
+  const cards = TEST_CARDS.map(
+    (c) => `<tr><td><code>${c.number.replace(/(\d{4})(?=\d)/g, '$1 ')}</code></td><td>${escapeHtml(c.label)}</td></tr>`,
+  ).join('')
   return layout(
     `Pay ${view.merchant}`,
     `${backLink(view)}
@@ -167,8 +164,13 @@ export function renderChallengePage(view: PageView, challengeId: string): string
 export function renderClosedPage(view: PageView): string {
   const { session } = view.record
   if (session.status === 'complete') {
-    const next = session.success_url ? `<a class="button" href="${escapeHtml(session.success_url.replaceAll('{CHECKOUT_SESSION_ID}', session.id))}">Continue</a>` : ''
-    return layout('Payment complete', `<div class="card"><h1>Payment complete</h1><p>This payment to ${escapeHtml(view.merchant)} has already been made. Nothing more to pay.</p>${next}</div>`)
+    const next = session.success_url
+      ? `<a class="button" href="${escapeHtml(session.success_url.replaceAll('{CHECKOUT_SESSION_ID}', session.id))}">Continue</a>`
+      : ''
+    return layout(
+      'Payment complete',
+      `<div class="card"><h1>Payment complete</h1><p>This payment to ${escapeHtml(view.merchant)} has already been made. Nothing more to pay.</p>${next}</div>`,
+    )
   }
   return layout(
     'Payment page expired',
@@ -177,5 +179,8 @@ export function renderClosedPage(view: PageView): string {
 }
 
 export function renderNotFoundPage(): string {
-  return layout('Payment page not found', `<div class="card"><h1>Payment page not found</h1><p>There is no payment at this address. Check the link you were sent.</p></div>`)
+  return layout(
+    'Payment page not found',
+    `<div class="card"><h1>Payment page not found</h1><p>There is no payment at this address. Check the link you were sent.</p></div>`,
+  )
 }

@@ -43,7 +43,8 @@ export class ParamReader {
   optionalString(key: string, opts: { maxLength?: number } = {}): string | undefined {
     const v = this.raw(key)
     if (v === undefined || v === '') return undefined
-    if (typeof v !== 'string') throw parameterInvalid(this.name(key), `Invalid string: ${this.name(key)} must be a string.`, 'parameter_invalid_string')
+    if (typeof v !== 'string')
+      throw parameterInvalid(this.name(key), `Invalid string: ${this.name(key)} must be a string.`, 'parameter_invalid_string')
     if (opts.maxLength !== undefined && v.length > opts.maxLength) {
       throw parameterInvalid(this.name(key), `Invalid string: ${this.name(key)} must be at most ${opts.maxLength} characters.`)
     }
@@ -121,7 +122,8 @@ export class ParamReader {
   stringArray(key: string): string[] | undefined {
     const items = this.list(key)
     return items?.map((item, i) => {
-      if (typeof item !== 'string') throw parameterInvalid(`${this.name(key)}[${i}]`, `Invalid string: ${this.name(key)}[${i}] must be a string.`)
+      if (typeof item !== 'string')
+        throw parameterInvalid(`${this.name(key)}[${i}]`, `Invalid string: ${this.name(key)}[${i}] must be a string.`)
       return item
     })
   }
@@ -138,8 +140,13 @@ export class ParamReader {
     const out: Record<string, string> = {}
     for (const [k, value] of Object.entries(v)) {
       if (typeof value !== 'string') throw parameterInvalid(param, `Invalid metadata: the value for '${k}' must be a string.`)
-      if (k.length > 40) throw parameterInvalid(param, `Invalid metadata: keys can be at most 40 characters long, but '${k}' is ${k.length}.`)
-      if (value.length > 500) throw parameterInvalid(param, `Invalid metadata: values can be at most 500 characters long, but the value for '${k}' is ${value.length}.`)
+      if (k.length > 40)
+        throw parameterInvalid(param, `Invalid metadata: keys can be at most 40 characters long, but '${k}' is ${k.length}.`)
+      if (value.length > 500)
+        throw parameterInvalid(
+          param,
+          `Invalid metadata: values can be at most 500 characters long, but the value for '${k}' is ${value.length}.`,
+        )
       if (value !== '') out[k] = value
     }
     if (Object.keys(out).length > 50) {

@@ -37,12 +37,19 @@ export function createPaymentPageRouter(deps: FakeDeps): express.Router {
     expireDueSessions(deps, found.account)
     const { session } = found.record
     const locale = session.locale && session.locale !== 'auto' ? session.locale : 'en-GB'
-    const view = { merchant: deps.merchantName(found.record), record: found.record, locale: Intl.NumberFormat.supportedLocalesOf(locale)[0] ?? 'en-GB' }
+    const view = {
+      merchant: deps.merchantName(found.record),
+      record: found.record,
+      locale: Intl.NumberFormat.supportedLocalesOf(locale)[0] ?? 'en-GB',
+    }
     return { ...found, view }
   }
 
   const closed = (res: Response, view: PageView) => {
-    res.status(view.record.session.status === 'expired' ? 410 : 200).type('html').send(renderClosedPage(view))
+    res
+      .status(view.record.session.status === 'expired' ? 410 : 200)
+      .type('html')
+      .send(renderClosedPage(view))
   }
 
   const answer = (res: Response, view: PageView, outcome: PaymentOutcome, state: FormState) => {
@@ -53,7 +60,10 @@ export function createPaymentPageRouter(deps: FakeDeps): express.Router {
         return
       }
       case 'declined':
-        res.status(402).type('html').send(renderPaymentPage(view, { ...state, alert: outcome.message }))
+        res
+          .status(402)
+          .type('html')
+          .send(renderPaymentPage(view, { ...state, alert: outcome.message }))
         return
       case 'authentication_required':
         res.status(200).type('html').send(renderChallengePage(view, outcome.challengeId))
@@ -82,7 +92,10 @@ export function createPaymentPageRouter(deps: FakeDeps): express.Router {
       if (email === '') state.fieldErrors = { email: 'Your email is incomplete.' }
       else if (!/^[^\s@]+@[^\s@]+\.[^\s@]+$/.test(email)) state.fieldErrors = { email: 'Your email address is invalid.' }
     }
-    const card = readCardForm({ number: text('card_number'), expiry: text('card_expiry'), cvc: text('card_cvc') }, new Date(account.now() * 1000))
+    const card = readCardForm(
+      { number: text('card_number'), expiry: text('card_expiry'), cvc: text('card_cvc') },
+      new Date(account.now() * 1000),
+    )
     for (const e of card.errors) state.fieldErrors = { ...state.fieldErrors, [e.field]: e.message }
     if (!card.card || Object.keys(state.fieldErrors ?? {}).length > 0) {
       res.status(422).type('html').send(renderPaymentPage(view, state))
@@ -95,9 +108,18 @@ export function createPaymentPageRouter(deps: FakeDeps): express.Router {
     const found = find(req, res)
     if (!found) return
     const { account, record, view } = found
-    const outcome = answerAuthentication(deps, account, record, formText(req.body, 'challenge'), formText(req.body, 'result') === 'complete')
+    const outcome = answerAuthentication(
+      deps,
+      account,
+      record,
+      formText(req.body, 'challenge'),
+      formText(req.body, 'result') === 'complete',
+    )
     if (outcome.kind === 'no_challenge') {
-      res.status(409).type('html').send(renderPaymentPage(view, { alert: 'That confirmation step is no longer waiting for an answer.' }))
+      res
+        .status(409)
+        .type('html')
+        .send(renderPaymentPage(view, { alert: 'That confirmation step is no longer waiting for an answer.' }))
       return
     }
     answer(res, view, outcome, { email: record.session.customer_email ?? '' })

@@ -29,13 +29,20 @@ function refundableCharge(account: Account, target: { param: 'payment_intent' | 
     if (!intent) throw resourceMissing('payment_intent', target.id, 'payment_intent')
     const charge = typeof intent.latest_charge === 'string' ? account.charges.get(intent.latest_charge) : undefined
     if (intent.status !== 'succeeded' || !charge) {
-      throw invalidRequest(`This PaymentIntent (${target.id}) does not have a successful charge to refund.`, { param: 'payment_intent', code: 'charge_not_refundable' })
+      throw invalidRequest(`This PaymentIntent (${target.id}) does not have a successful charge to refund.`, {
+        param: 'payment_intent',
+        code: 'charge_not_refundable',
+      })
     }
     return charge
   }
   const charge = account.charges.get(target.id)
   if (!charge) throw resourceMissing('charge', target.id, 'charge')
-  if (charge.status !== 'succeeded') throw invalidRequest(`Charge ${charge.id} did not succeed, so it cannot be refunded.`, { param: 'charge', code: 'charge_not_refundable' })
+  if (charge.status !== 'succeeded')
+    throw invalidRequest(`Charge ${charge.id} did not succeed, so it cannot be refunded.`, {
+      param: 'charge',
+      code: 'charge_not_refundable',
+    })
   return charge
 }
 
@@ -44,7 +51,12 @@ function refundableCharge(account: Account, target: { param: 'payment_intent' | 
  * (Refunds API, https://docs.stripe.com/api/refunds/create). Several partial refunds may add
  * up to the charge's amount and no further. Test-mode card refunds succeed at once.
  */
-export function createRefund(deps: FakeDeps, account: Account, params: ParamReader, request: RequestInfo): { refund: Stripe.Refund; expand: string[] } {
+export function createRefund(
+  deps: FakeDeps,
+  account: Account,
+  params: ParamReader,
+  request: RequestInfo,
+): { refund: Stripe.Refund; expand: string[] } {
   const intentId = params.optionalString('payment_intent')
   const chargeId = params.optionalString('charge')
   const amount = params.optionalInteger('amount', { min: 1 })
@@ -57,9 +69,17 @@ export function createRefund(deps: FakeDeps, account: Account, params: ParamRead
     throw parameterInvalid('charge', 'You may only specify one of these parameters: charge, payment_intent.', 'parameters_exclusive')
   }
   const target =
-    intentId !== undefined ? { param: 'payment_intent' as const, id: intentId } : chargeId !== undefined ? { param: 'charge' as const, id: chargeId } : undefined
+    intentId !== undefined
+      ? { param: 'payment_intent' as const, id: intentId }
+      : chargeId !== undefined
+        ? { param: 'charge' as const, id: chargeId }
+        : undefined
   if (!target) {
-    throw parameterInvalid('payment_intent', 'One of the following params should be provided for this request: payment_intent or charge.', 'parameter_missing')
+    throw parameterInvalid(
+      'payment_intent',
+      'One of the following params should be provided for this request: payment_intent or charge.',
+      'parameter_missing',
+    )
   }
 
   const charge = refundableCharge(account, target)

@@ -16,7 +16,13 @@ const WebhookConfigSchema = z.strictObject({
   enabledEvents: z.array(z.string().min(1)).nullable().optional(),
 })
 
-const ClockSchema = z.strictObject({ advanceSeconds: z.number().int().min(0).max(10 * 365 * 24 * 3600) })
+const ClockSchema = z.strictObject({
+  advanceSeconds: z
+    .number()
+    .int()
+    .min(0)
+    .max(10 * 365 * 24 * 3600),
+})
 
 /**
  * Routes that Stripe does not have, for tests and local runs only, all under /_fake and keyed
@@ -85,9 +91,13 @@ export function createTestRouter(deps: FakeDeps & { store: AccountStore; webhook
     '/events/:id/resend',
     withAccount((account, req, res) => {
       const event = account.events.get(String(req.params.id ?? ''))
-      if (!event) return void res.status(404).json({ error: { type: 'invalid_request_error', code: 'resource_missing', message: `No such event: '${req.params.id}'` } })
+      if (!event)
+        return void res
+          .status(404)
+          .json({ error: { type: 'invalid_request_error', code: 'resource_missing', message: `No such event: '${req.params.id}'` } })
       const settings = deps.webhooks.settingsFor(account)
-      if (settings.url === null || settings.secret === null) return invalid(res, 'No webhook endpoint is set for this key: POST /_fake/webhook first.')
+      if (settings.url === null || settings.secret === null)
+        return invalid(res, 'No webhook endpoint is set for this key: POST /_fake/webhook first.')
       deps.webhooks.deliver(account, event, true)
       res.status(202).json({ resending: event.id, to: settings.url })
     }),
@@ -105,7 +115,9 @@ export function createTestRouter(deps: FakeDeps & { store: AccountStore; webhook
   )
 
   router.use((_req: Request, res: Response) => {
-    res.status(404).json({ error: { type: 'invalid_request_error', message: 'Unknown test route. See docker-free-dev/README.md for the /_fake routes.' } })
+    res.status(404).json({
+      error: { type: 'invalid_request_error', message: 'Unknown test route. See docker-free-dev/README.md for the /_fake routes.' },
+    })
   })
   return router
 }

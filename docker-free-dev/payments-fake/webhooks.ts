@@ -52,7 +52,9 @@ export class WebhookDispatcher {
 
   wants(account: Account, type: string): boolean {
     const s = this.settingsFor(account)
-    return s.url !== null && s.secret !== null && (s.enabledEvents === null || s.enabledEvents.includes('*') || s.enabledEvents.includes(type))
+    return (
+      s.url !== null && s.secret !== null && (s.enabledEvents === null || s.enabledEvents.includes('*') || s.enabledEvents.includes(type))
+    )
   }
 
   deliver(account: Account, event: Stripe.Event, redelivery: boolean): void {

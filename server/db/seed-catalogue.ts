@@ -48,7 +48,18 @@ interface DemoOperation {
   notes?: string
 }
 
-const op = (code: string, name: string, synonyms: string[], system: LabourSystem, groups: string[], side: LabourSide, hours: string, category: LabourCategory, opSteps: string[], notes?: string): DemoOperation => ({
+const op = (
+  code: string,
+  name: string,
+  synonyms: string[],
+  system: LabourSystem,
+  groups: string[],
+  side: LabourSide,
+  hours: string,
+  category: LabourCategory,
+  opSteps: string[],
+  notes?: string,
+): DemoOperation => ({
   code,
   name,
   synonyms,
@@ -62,64 +73,299 @@ const op = (code: string, name: string, synonyms: string[], system: LabourSystem
 })
 
 /** A left and a right operation from one description; sided access steps end in L or R. */
-const pair = (code: string, name: string, synonyms: string[], system: LabourSystem, groups: string[], hours: string, category: LabourCategory, opSteps: string[]): DemoOperation[] =>
+const pair = (
+  code: string,
+  name: string,
+  synonyms: string[],
+  system: LabourSystem,
+  groups: string[],
+  hours: string,
+  category: LabourCategory,
+  opSteps: string[],
+): DemoOperation[] =>
   (['L', 'R'] as const).map((s) =>
-    op(`${code}-${s}`, `${name}, ${s === 'L' ? 'left' : 'right'}`, synonyms, system, groups, s === 'L' ? 'left' : 'right', hours, category, opSteps.map((x) => x.replace(/[LR]$/, s))),
+    op(
+      `${code}-${s}`,
+      `${name}, ${s === 'L' ? 'left' : 'right'}`,
+      synonyms,
+      system,
+      groups,
+      s === 'L' ? 'left' : 'right',
+      hours,
+      category,
+      opSteps.map((x) => x.replace(/[LR]$/, s)),
+    ),
   )
 
 const operations: DemoOperation[] = [
-  ...pair('SWV-SEAL', 'Replace swivel housing oil seal', ['swivel seal', 'swivel ball seal'], 'front_axle', [COIL], '3.2', 'standard', ['HUB-FL']),
-  ...pair('SWV-BRG', 'Replace swivel pin bearings', ['kingpin bearings', 'swivel bearings'], 'front_axle', [COIL], '4.5', 'standard', ['SWV-FL']),
+  ...pair('SWV-SEAL', 'Replace swivel housing oil seal', ['swivel seal', 'swivel ball seal'], 'front_axle', [COIL], '3.2', 'standard', [
+    'HUB-FL',
+  ]),
+  ...pair('SWV-BRG', 'Replace swivel pin bearings', ['kingpin bearings', 'swivel bearings'], 'front_axle', [COIL], '4.5', 'standard', [
+    'SWV-FL',
+  ]),
   ...pair('SWV-BALL', 'Replace swivel ball', ['swivel housing ball', 'chrome ball'], 'front_axle', [COIL], '5.8', 'specialist', ['SWV-FL']),
   ...pair('CV-REPLACE', 'Replace CV joint', ['constant velocity joint', 'CVJ'], 'front_axle', [COIL], '3.6', 'standard', ['HUB-FL']),
   ...pair('CV-BOOT', 'Replace CV joint boot', ['CV gaiter', 'boot kit'], 'front_axle', [COIL], '2.4', 'standard', ['HUB-FL']),
   ...pair('HALF-SHAFT', 'Replace front half shaft', ['axle shaft', 'driveshaft'], 'front_axle', [], '2.8', 'standard', ['HUB-FL']),
-  ...pair('FA-111', 'Clean out and refill swivel housing with grease', ['swivel grease', 'swivel oil to grease'], 'front_axle', [COIL], '1.2', 'standard', []),
-  op('DIFF-OVERHAUL-F', 'Overhaul front differential', ['diff rebuild', 'front diff overhaul'], 'front_axle', [], 'none', '6.5', 'specialist', ['PROP-F', 'DRN-F']),
-  op('DIFF-REPLACE-F', 'Replace front differential unit', ['diff swap', 'exchange diff'], 'front_axle', [], 'none', '3.4', 'standard', ['PROP-F', 'DRN-F']),
-  op('DIFF-PINION-SEAL-F', 'Replace front pinion oil seal', ['pinion seal', 'front diff seal'], 'front_axle', [], 'none', '1.6', 'standard', ['PROP-F']),
-  op('FA-108', 'Change front axle oil and check the drain plug for metal', ['front diff oil change', 'axle oil'], 'front_axle', [], 'none', '0.6', 'standard', ['DRN-F']),
-  op('FA-109', 'Set front differential backlash and bearing preload', ['diff setup', 'backlash adjustment'], 'front_axle', [], 'none', '3.5', 'specialist', ['PROP-F', 'DRN-F']),
-  op('FA-110', 'Front differential operation test, wheels free', ['diff test', 'diff check'], 'front_axle', [], 'none', '0.5', 'diagnostic', [], 'Vehicle on stands; see the inspection guide for the three-turn test.'),
+  ...pair(
+    'FA-111',
+    'Clean out and refill swivel housing with grease',
+    ['swivel grease', 'swivel oil to grease'],
+    'front_axle',
+    [COIL],
+    '1.2',
+    'standard',
+    [],
+  ),
+  op(
+    'DIFF-OVERHAUL-F',
+    'Overhaul front differential',
+    ['diff rebuild', 'front diff overhaul'],
+    'front_axle',
+    [],
+    'none',
+    '6.5',
+    'specialist',
+    ['PROP-F', 'DRN-F'],
+  ),
+  op('DIFF-REPLACE-F', 'Replace front differential unit', ['diff swap', 'exchange diff'], 'front_axle', [], 'none', '3.4', 'standard', [
+    'PROP-F',
+    'DRN-F',
+  ]),
+  op(
+    'DIFF-PINION-SEAL-F',
+    'Replace front pinion oil seal',
+    ['pinion seal', 'front diff seal'],
+    'front_axle',
+    [],
+    'none',
+    '1.6',
+    'standard',
+    ['PROP-F'],
+  ),
+  op(
+    'FA-108',
+    'Change front axle oil and check the drain plug for metal',
+    ['front diff oil change', 'axle oil'],
+    'front_axle',
+    [],
+    'none',
+    '0.6',
+    'standard',
+    ['DRN-F'],
+  ),
+  op(
+    'FA-109',
+    'Set front differential backlash and bearing preload',
+    ['diff setup', 'backlash adjustment'],
+    'front_axle',
+    [],
+    'none',
+    '3.5',
+    'specialist',
+    ['PROP-F', 'DRN-F'],
+  ),
+  op(
+    'FA-110',
+    'Front differential operation test, wheels free',
+    ['diff test', 'diff check'],
+    'front_axle',
+    [],
+    'none',
+    '0.5',
+    'diagnostic',
+    [],
+    'Vehicle on stands; see the inspection guide for the three-turn test.',
+  ),
   op('FA-112', 'Replace front axle breather pipe', ['axle breather'], 'front_axle', [], 'none', '0.4', 'standard', []),
   ...pair('RA-201', 'Replace rear half shaft', ['axle shaft', 'halfshaft'], 'rear_axle', [], '1.4', 'standard', ['HSH-RL']),
   ...pair('RA-202', 'Replace rear hub oil seal', ['hub seal', 'rear hub seal'], 'rear_axle', [], '1.9', 'standard', ['HSH-RL']),
-  op('DIFF-OVERHAUL-R', 'Overhaul rear differential', ['diff rebuild', 'rear diff overhaul'], 'rear_axle', [], 'none', '6', 'specialist', ['PROP-R', 'DRN-R']),
-  op('DIFF-REPLACE-R', 'Replace rear differential unit', ['diff swap', 'exchange diff'], 'rear_axle', [], 'none', '3.2', 'standard', ['PROP-R', 'DRN-R']),
-  op('DIFF-PINION-SEAL-R', 'Replace rear pinion oil seal', ['pinion seal', 'rear diff seal'], 'rear_axle', [], 'none', '1.5', 'standard', ['PROP-R']),
+  op('DIFF-OVERHAUL-R', 'Overhaul rear differential', ['diff rebuild', 'rear diff overhaul'], 'rear_axle', [], 'none', '6', 'specialist', [
+    'PROP-R',
+    'DRN-R',
+  ]),
+  op('DIFF-REPLACE-R', 'Replace rear differential unit', ['diff swap', 'exchange diff'], 'rear_axle', [], 'none', '3.2', 'standard', [
+    'PROP-R',
+    'DRN-R',
+  ]),
+  op('DIFF-PINION-SEAL-R', 'Replace rear pinion oil seal', ['pinion seal', 'rear diff seal'], 'rear_axle', [], 'none', '1.5', 'standard', [
+    'PROP-R',
+  ]),
   op('RA-205', 'Change rear axle oil', ['rear diff oil change', 'axle oil'], 'rear_axle', [], 'none', '0.6', 'standard', ['DRN-R']),
   op('RA-206', 'Fit rear differential lock actuator', ['diff lock', 'locker'], 'rear_axle', [], 'none', '2.4', 'specialist', ['DRN-R']),
-  op('RA-207', 'Rear differential operation test, wheels free', ['diff test', 'diff check'], 'rear_axle', [], 'none', '0.5', 'diagnostic', []),
+  op(
+    'RA-207',
+    'Rear differential operation test, wheels free',
+    ['diff test', 'diff check'],
+    'rear_axle',
+    [],
+    'none',
+    '0.5',
+    'diagnostic',
+    [],
+  ),
   op('RA-208', 'Replace rear axle U-bolts and spring pads', ['U bolts', 'spring pads'], 'rear_axle', [LEAF], 'both', '1.8', 'standard', []),
   op('RA-209', 'Replace rear axle breather pipe', ['axle breather'], 'rear_axle', [], 'none', '0.3', 'standard', []),
-  op('PROP-UJ-F', 'Replace front prop shaft universal joint', ['UJ', 'cross and bearing', 'front UJ'], 'prop_shafts', [], 'none', '1.6', 'standard', ['PROP-F']),
-  op('PROP-UJ-R', 'Replace both rear prop shaft universal joints', ['UJ', 'cross and bearing', 'rear UJs'], 'prop_shafts', [], 'none', '2.2', 'standard', ['PROP-R']),
-  op('PS-303', 'Replace rear prop shaft centre bearing', ['centre support bearing', 'carrier bearing'], 'prop_shafts', [LEAF], 'none', '1.8', 'standard', ['PROP-R']),
-  op('PROP-REFIT', 'Refit prop shaft sliding joint toward the gearbox', ['slider', 'sliding joint', 'spline phasing'], 'prop_shafts', [], 'none', '0.9', 'standard', ['PROP-F']),
+  op(
+    'PROP-UJ-F',
+    'Replace front prop shaft universal joint',
+    ['UJ', 'cross and bearing', 'front UJ'],
+    'prop_shafts',
+    [],
+    'none',
+    '1.6',
+    'standard',
+    ['PROP-F'],
+  ),
+  op(
+    'PROP-UJ-R',
+    'Replace both rear prop shaft universal joints',
+    ['UJ', 'cross and bearing', 'rear UJs'],
+    'prop_shafts',
+    [],
+    'none',
+    '2.2',
+    'standard',
+    ['PROP-R'],
+  ),
+  op(
+    'PS-303',
+    'Replace rear prop shaft centre bearing',
+    ['centre support bearing', 'carrier bearing'],
+    'prop_shafts',
+    [LEAF],
+    'none',
+    '1.8',
+    'standard',
+    ['PROP-R'],
+  ),
+  op(
+    'PROP-REFIT',
+    'Refit prop shaft sliding joint toward the gearbox',
+    ['slider', 'sliding joint', 'spline phasing'],
+    'prop_shafts',
+    [],
+    'none',
+    '0.9',
+    'standard',
+    ['PROP-F'],
+  ),
   op('PS-305', 'Grease prop shaft joints and splines', ['prop grease'], 'prop_shafts', [], 'none', '0.4', 'standard', []),
-  op('PROP-REPLACE-F', 'Replace front prop shaft complete', ['propshaft', 'front prop'], 'prop_shafts', [], 'none', '0.8', 'standard', ['PROP-F']),
-  op('PROP-REPLACE-R', 'Replace rear prop shaft complete', ['propshaft', 'rear prop'], 'prop_shafts', [], 'none', '0.8', 'standard', ['PROP-R']),
-  op('PROP-BALANCE', 'Trace prop shaft vibration and check balance', ['prop vibration', 'driveline vibration'], 'prop_shafts', [], 'none', '1', 'diagnostic', []),
+  op('PROP-REPLACE-F', 'Replace front prop shaft complete', ['propshaft', 'front prop'], 'prop_shafts', [], 'none', '0.8', 'standard', [
+    'PROP-F',
+  ]),
+  op('PROP-REPLACE-R', 'Replace rear prop shaft complete', ['propshaft', 'rear prop'], 'prop_shafts', [], 'none', '0.8', 'standard', [
+    'PROP-R',
+  ]),
+  op(
+    'PROP-BALANCE',
+    'Trace prop shaft vibration and check balance',
+    ['prop vibration', 'driveline vibration'],
+    'prop_shafts',
+    [],
+    'none',
+    '1',
+    'diagnostic',
+    [],
+  ),
   op('PROP-FLANGE', 'Replace prop shaft flange bolts and nuts', ['flange bolts'], 'prop_shafts', [], 'none', '0.5', 'standard', []),
-  op('TBOX-OUTPUT-BRG', 'Replace transfer box rear output shaft bearing', ['output bearing', 'rear output'], 'transfer_box', [], 'none', '5.2', 'specialist', ['TB-OUT']),
-  op('TB-402', 'Replace transfer box front output oil seal', ['output seal', 'front output seal'], 'transfer_box', [], 'none', '1.1', 'standard', ['PROP-F']),
-  op('TB-403', 'Replace transfer box rear output oil seal', ['output seal', 'rear output seal'], 'transfer_box', [], 'none', '1.1', 'standard', ['PROP-R']),
-  op('TBOX-CDIFF', 'Repair centre differential lock mechanism', ['diff lock', 'centre diff lock', 'CDL'], 'transfer_box', [COIL], 'none', '3.8', 'specialist', []),
-  op('TB-405', 'Overhaul transfer box', ['transfer case rebuild', 't-box overhaul'], 'transfer_box', [], 'none', '12', 'specialist', ['TB-OUT']),
-  op('TB-406', 'Check backlash between transfer box outputs', ['output backlash', 'knock on take-up'], 'transfer_box', [], 'none', '0.6', 'diagnostic', []),
+  op(
+    'TBOX-OUTPUT-BRG',
+    'Replace transfer box rear output shaft bearing',
+    ['output bearing', 'rear output'],
+    'transfer_box',
+    [],
+    'none',
+    '5.2',
+    'specialist',
+    ['TB-OUT'],
+  ),
+  op(
+    'TB-402',
+    'Replace transfer box front output oil seal',
+    ['output seal', 'front output seal'],
+    'transfer_box',
+    [],
+    'none',
+    '1.1',
+    'standard',
+    ['PROP-F'],
+  ),
+  op(
+    'TB-403',
+    'Replace transfer box rear output oil seal',
+    ['output seal', 'rear output seal'],
+    'transfer_box',
+    [],
+    'none',
+    '1.1',
+    'standard',
+    ['PROP-R'],
+  ),
+  op(
+    'TBOX-CDIFF',
+    'Repair centre differential lock mechanism',
+    ['diff lock', 'centre diff lock', 'CDL'],
+    'transfer_box',
+    [COIL],
+    'none',
+    '3.8',
+    'specialist',
+    [],
+  ),
+  op('TB-405', 'Overhaul transfer box', ['transfer case rebuild', 't-box overhaul'], 'transfer_box', [], 'none', '12', 'specialist', [
+    'TB-OUT',
+  ]),
+  op(
+    'TB-406',
+    'Check backlash between transfer box outputs',
+    ['output backlash', 'knock on take-up'],
+    'transfer_box',
+    [],
+    'none',
+    '0.6',
+    'diagnostic',
+    [],
+  ),
   op('TB-407', 'Change transfer box oil', ['t-box oil change'], 'transfer_box', [], 'none', '0.5', 'standard', []),
-  op('TB-408', 'Replace high and low range selector linkage bushes', ['range selector', 'hi-lo linkage'], 'transfer_box', [], 'none', '1.3', 'standard', []),
+  op(
+    'TB-408',
+    'Replace high and low range selector linkage bushes',
+    ['range selector', 'hi-lo linkage'],
+    'transfer_box',
+    [],
+    'none',
+    '1.3',
+    'standard',
+    [],
+  ),
   ...pair('ST-501', 'Replace track rod end', ['TRE', 'tie rod end'], 'steering', [], '0.8', 'standard', []),
   op('ST-502', 'Replace drag link', ['relay rod'], 'steering', [COIL], 'none', '1', 'standard', ['GUARD']),
   op('ST-503', 'Replace steering damper', ['damper', 'steering shock'], 'steering', [], 'none', '0.5', 'standard', []),
   op('ST-504', 'Replace panhard rod bushes', ['panhard', 'track bar bushes'], 'steering', [COIL], 'none', '1.2', 'standard', []),
-  op('ST-505', 'Adjust steering box and check free play', ['steering box adjustment', 'free play'], 'steering', [], 'none', '0.8', 'diagnostic', []),
+  op(
+    'ST-505',
+    'Adjust steering box and check free play',
+    ['steering box adjustment', 'free play'],
+    'steering',
+    [],
+    'none',
+    '0.8',
+    'diagnostic',
+    [],
+  ),
   op('ST-506', 'Replace steering box', ['steering gear'], 'steering', [], 'none', '3', 'specialist', ['GUARD']),
   op('ST-507', 'Check wheel alignment on live axles', ['tracking', 'toe-in'], 'steering', [], 'none', '0.9', 'standard', []),
   ...pair('HUB-BRG', 'Replace front wheel bearings', ['hub bearing', 'wheel bearing'], 'hubs_bearings', [], '2.1', 'standard', ['HUB-FL']),
   ...pair('HB-602', 'Replace rear wheel bearings', ['hub bearing', 'wheel bearing'], 'hubs_bearings', [], '2', 'standard', ['HSH-RL']),
-  ...pair('HB-603', 'Adjust front wheel bearing preload', ['bearing play', 'hub adjustment'], 'hubs_bearings', [], '1.6', 'standard', ['HUB-FL']),
-  op('HB-604', 'Fit a pair of free-wheeling hubs', ['freewheel hubs', 'locking hubs'], 'hubs_bearings', [LEAF], 'both', '1.7', 'standard', ['WHL-FL', 'WHL-FR']),
+  ...pair('HB-603', 'Adjust front wheel bearing preload', ['bearing play', 'hub adjustment'], 'hubs_bearings', [], '1.6', 'standard', [
+    'HUB-FL',
+  ]),
+  op('HB-604', 'Fit a pair of free-wheeling hubs', ['freewheel hubs', 'locking hubs'], 'hubs_bearings', [LEAF], 'both', '1.7', 'standard', [
+    'WHL-FL',
+    'WHL-FR',
+  ]),
   op('HB-605', 'Check hub bearing play on all four wheels', ['bearing check'], 'hubs_bearings', [], 'none', '0.7', 'diagnostic', []),
 ]
 
@@ -213,7 +459,9 @@ export async function seedCatalogue(tx: Tx, workshopId: string, opts: { technici
     if (!id) throw new Error(`demo access step ${code} is missing`)
     return id
   }
-  await tx.insert(schema.accessStepIncludes).values(steps.flatMap(([code, , , includes]) => includes.map((inc) => ({ workshopId, stepId: idOf(code), includedStepId: idOf(inc) }))))
+  await tx
+    .insert(schema.accessStepIncludes)
+    .values(steps.flatMap(([code, , , includes]) => includes.map((inc) => ({ workshopId, stepId: idOf(code), includedStepId: idOf(inc) }))))
 
   const savedOps = await tx
     .insert(schema.labourOperations)
@@ -233,9 +481,13 @@ export async function seedCatalogue(tx: Tx, workshopId: string, opts: { technici
     )
     .returning()
   const opId = new Map(savedOps.map((o) => [o.code, o.id]))
-  await tx.insert(schema.labourOperationAccessSteps).values(
-    operations.flatMap((o) => o.steps.map((code, position) => ({ workshopId, operationId: opId.get(o.code) ?? '', accessStepId: idOf(code), position }))),
-  )
+  await tx
+    .insert(schema.labourOperationAccessSteps)
+    .values(
+      operations.flatMap((o) =>
+        o.steps.map((code, position) => ({ workshopId, operationId: opId.get(o.code) ?? '', accessStepId: idOf(code), position })),
+      ),
+    )
 
   const groups = [
     { suffix: 'C', label: 'coil-sprung axle', factor: 100 },
@@ -262,9 +514,13 @@ export async function seedCatalogue(tx: Tx, workshopId: string, opts: { technici
 
   if (opts.technicianId) {
     const technicianId = opts.technicianId
-    await tx.insert(schema.labourClockTimes).values(
-      Object.entries(demoClockTimes).flatMap(([code, times]) => times.map((hours) => ({ workshopId, operationId: opId.get(code) ?? '', technicianId, hours }))),
-    )
+    await tx
+      .insert(schema.labourClockTimes)
+      .values(
+        Object.entries(demoClockTimes).flatMap(([code, times]) =>
+          times.map((hours) => ({ workshopId, operationId: opId.get(code) ?? '', technicianId, hours })),
+        ),
+      )
   }
 }
 

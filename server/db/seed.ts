@@ -46,9 +46,31 @@ export async function seedDemo(db: Db): Promise<'seeded' | 'kept'> {
     const people = await tx
       .insert(schema.customers)
       .values([
-        { workshopId: shop.id, name: 'Rhian Calloway', email: 'rhian.calloway@example.test', phone: '07700 900311', addressLines: ['Hollin Cottage', 'Upper Skell'], postcode: 'BF3 2LR' },
-        { workshopId: shop.id, name: 'Tomasz Wren', email: 'tomasz.wren@example.test', phone: '07700 900527', addressLines: ['14 Quarry Row', 'Brackenfold'], postcode: 'BF1 9DD' },
-        { workshopId: shop.id, name: 'Harriet Oduya', email: 'harriet.oduya@example.test', phone: '07700 900864', addressLines: ['Low Gill Farm', 'Marrick End'], postcode: 'BF6 1AG', contactByPhone: true },
+        {
+          workshopId: shop.id,
+          name: 'Rhian Calloway',
+          email: 'rhian.calloway@example.test',
+          phone: '07700 900311',
+          addressLines: ['Hollin Cottage', 'Upper Skell'],
+          postcode: 'BF3 2LR',
+        },
+        {
+          workshopId: shop.id,
+          name: 'Tomasz Wren',
+          email: 'tomasz.wren@example.test',
+          phone: '07700 900527',
+          addressLines: ['14 Quarry Row', 'Brackenfold'],
+          postcode: 'BF1 9DD',
+        },
+        {
+          workshopId: shop.id,
+          name: 'Harriet Oduya',
+          email: 'harriet.oduya@example.test',
+          phone: '07700 900864',
+          addressLines: ['Low Gill Farm', 'Marrick End'],
+          postcode: 'BF6 1AG',
+          contactByPhone: true,
+        },
       ])
       .returning()
     const [rhian, tomasz, harriet] = people
@@ -57,18 +79,58 @@ export async function seedDemo(db: Db): Promise<'seeded' | 'kept'> {
     const cars = await tx
       .insert(schema.vehicles)
       .values([
-        { workshopId: shop.id, customerId: rhian.id, registration: 'BF19 KRT', vin: 'SKF4X4DEM10000017', make: 'Corrin', model: 'Stag 110', year: 2014, odometer: 118_400, vehicleGroup: 'coil-sprung-live-axle' },
-        { workshopId: shop.id, customerId: tomasz.id, registration: 'WN08 PLB', vin: 'HRL4X4DEM20000025', make: 'Harlow', model: 'Trailmaster LWB', year: 2008, odometer: 161_250, vehicleGroup: 'leaf-sprung-pickup' },
-        { workshopId: shop.id, customerId: harriet.id, registration: 'YM66 GTA', make: 'Ridgeback', model: 'Fellrunner 3.0', year: 2016, odometer: 92_030, vehicleGroup: 'coil-sprung-live-axle' },
+        {
+          workshopId: shop.id,
+          customerId: rhian.id,
+          registration: 'BF19 KRT',
+          vin: 'SKF4X4DEM10000017',
+          make: 'Corrin',
+          model: 'Stag 110',
+          year: 2014,
+          odometer: 118_400,
+          vehicleGroup: 'coil-sprung-live-axle',
+        },
+        {
+          workshopId: shop.id,
+          customerId: tomasz.id,
+          registration: 'WN08 PLB',
+          vin: 'HRL4X4DEM20000025',
+          make: 'Harlow',
+          model: 'Trailmaster LWB',
+          year: 2008,
+          odometer: 161_250,
+          vehicleGroup: 'leaf-sprung-pickup',
+        },
+        {
+          workshopId: shop.id,
+          customerId: harriet.id,
+          registration: 'YM66 GTA',
+          make: 'Ridgeback',
+          model: 'Fellrunner 3.0',
+          year: 2016,
+          odometer: 92_030,
+          vehicleGroup: 'coil-sprung-live-axle',
+        },
       ])
       .returning()
     const [stag, trailmaster, fellrunner] = cars
     if (!stag || !trailmaster || !fellrunner) throw new Error('vehicle insert returned too few rows')
 
     await tx.insert(schema.jobs).values([
-      { workshopId: shop.id, vehicleId: stag.id, concern: 'Knock from the front when pulling away, worse on full lock.', status: 'inspecting', technicianId: tech?.id },
+      {
+        workshopId: shop.id,
+        vehicleId: stag.id,
+        concern: 'Knock from the front when pulling away, worse on full lock.',
+        status: 'inspecting',
+        technicianId: tech?.id,
+      },
       { workshopId: shop.id, vehicleId: trailmaster.id, concern: 'Vibration through the floor above 50 mph.', status: 'booked_in' },
-      { workshopId: shop.id, vehicleId: fellrunner.id, concern: 'Oil on the inside of the front wheels after green-laning.', status: 'booked_in' },
+      {
+        workshopId: shop.id,
+        vehicleId: fellrunner.id,
+        concern: 'Oil on the inside of the front wheels after green-laning.',
+        status: 'booked_in',
+      },
     ])
     // Labour times, access steps, parts and pricing: all invented demo figures (see seed-catalogue.ts).
     await seedCatalogue(tx, shop.id, { technicianId: tech?.id })

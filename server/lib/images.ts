@@ -38,7 +38,11 @@ export async function processPhoto(data: Buffer): Promise<ProcessedImage> {
   }
   const pixels = (meta.width ?? 0) * (meta.height ?? 0)
   if (pixels > PHOTO_MAX_PIXELS) {
-    throw new AppError(422, 'image_too_large', `That photo is ${Math.round(pixels / 1e6)} megapixels; the most we take is ${PHOTO_MAX_PIXELS / 1e6}. Use a lower camera resolution.`)
+    throw new AppError(
+      422,
+      'image_too_large',
+      `That photo is ${Math.round(pixels / 1e6)} megapixels; the most we take is ${PHOTO_MAX_PIXELS / 1e6}. Use a lower camera resolution.`,
+    )
   }
   try {
     const image = sharp(data, { limitInputPixels: PHOTO_MAX_PIXELS }).rotate()
@@ -46,8 +50,18 @@ export async function processPhoto(data: Buffer): Promise<ProcessedImage> {
     const asPng = detected.mime === 'image/png'
     const encoded = asPng ? image.png({ compressionLevel: 9 }) : image.jpeg({ quality: 85, mozjpeg: true })
     const { data: full, info } = await encoded.toBuffer({ resolveWithObject: true })
-    const thumb = await sharp(full).resize({ width: THUMB_SIZE, height: THUMB_SIZE, fit: 'inside', withoutEnlargement: true }).jpeg({ quality: 78 }).toBuffer()
-    return { full, thumb, contentType: asPng ? 'image/png' : 'image/jpeg', extension: asPng ? 'png' : 'jpg', width: info.width, height: info.height }
+    const thumb = await sharp(full)
+      .resize({ width: THUMB_SIZE, height: THUMB_SIZE, fit: 'inside', withoutEnlargement: true })
+      .jpeg({ quality: 78 })
+      .toBuffer()
+    return {
+      full,
+      thumb,
+      contentType: asPng ? 'image/png' : 'image/jpeg',
+      extension: asPng ? 'png' : 'jpg',
+      width: info.width,
+      height: info.height,
+    }
   } catch {
     throw new AppError(422, 'unreadable_image', 'That photo could not be read. It may be damaged; try taking it again.')
   }

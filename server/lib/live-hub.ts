@@ -67,7 +67,10 @@ export function createLiveHub(options: LiveHubOptions): LiveHub {
     const result = LiveEventSchema.safeParse(parsed)
     if (!result.success) {
       // The payload may name a customer, so only where it failed is logged.
-      logger.warn({ issues: result.error.issues.map((i) => ({ path: i.path.join('.'), code: i.code })) }, 'live event ignored: not a valid live event')
+      logger.warn(
+        { issues: result.error.issues.map((i) => ({ path: i.path.join('.'), code: i.code })) },
+        'live event ignored: not a valid live event',
+      )
       return
     }
     const listeners = byWorkshop.get(result.data.workshopId)
@@ -132,7 +135,10 @@ export function createLiveHub(options: LiveHubOptions): LiveHub {
     // Jitter keeps many processes from reconnecting to a restarted database in the same instant.
     const wait = Math.round(base / 2 + Math.random() * (base / 2))
     attempt += 1
-    logger.warn({ err: err ? { message: err.message, code: (err as { code?: string }).code } : undefined, retryInMs: wait, attempt }, hasListenedBefore ? 'live updates connection lost; reconnecting' : 'live updates cannot connect yet; retrying')
+    logger.warn(
+      { err: err ? { message: err.message, code: (err as { code?: string }).code } : undefined, retryInMs: wait, attempt },
+      hasListenedBefore ? 'live updates connection lost; reconnecting' : 'live updates cannot connect yet; retrying',
+    )
     retryTimer = setTimeout(() => {
       retryTimer = null
       void connect()

@@ -34,7 +34,15 @@ export function createMailer(env: Env): Mailer {
         content: Buffer.isBuffer(a.content) ? a.content : Buffer.from(a.content.buffer, a.content.byteOffset, a.content.byteLength),
         contentType: a.contentType,
       }))
-      await transport.sendMail({ from, to: message.to, subject: message.subject, text: message.text, html: message.html, replyTo: message.replyTo, attachments })
+      await transport.sendMail({
+        from,
+        to: message.to,
+        subject: message.subject,
+        text: message.text,
+        html: message.html,
+        replyTo: message.replyTo,
+        attachments,
+      })
     },
   }
 }

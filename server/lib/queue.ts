@@ -26,7 +26,12 @@ export interface QueueOptions {
  * waits for the web requests' connections.
  */
 export function createQueue(connectionString: string, logger: Logger, options: QueueOptions = {}): JobQueue {
-  const pool = new pg.Pool({ connectionString, max: Math.max(2, options.max ?? 4), connectionTimeoutMillis: 5000, application_name: 'tickover-queue' })
+  const pool = new pg.Pool({
+    connectionString,
+    max: Math.max(2, options.max ?? 4),
+    connectionTimeoutMillis: 5000,
+    application_name: 'tickover-queue',
+  })
   pool.on('error', (err) => logger.warn({ err: { message: err.message } }, 'idle queue connection lost'))
   const executor: PgBoss.Db = { executeSql: (text, values) => pool.query(text, values) }
 
@@ -94,7 +99,10 @@ export function createQueue(connectionString: string, logger: Logger, options: Q
         () => true,
         () => false,
       )
-      if (wasStarted) await boss.stop({ graceful: true, timeout: timeoutMs }).catch((err: unknown) => logger.warn({ err }, 'job queue did not stop cleanly'))
+      if (wasStarted)
+        await boss
+          .stop({ graceful: true, timeout: timeoutMs })
+          .catch((err: unknown) => logger.warn({ err }, 'job queue did not stop cleanly'))
       await pool.end().catch(() => undefined)
     },
   }

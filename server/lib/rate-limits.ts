@@ -7,7 +7,12 @@ import { hashToken } from './tokens'
 
 const FIFTEEN_MINUTES = 15 * 60_000
 
-function limiter(pool: pg.Pool, prefix: string, limit: number, keyGenerator?: (req: Parameters<RequestHandler>[0]) => string): RequestHandler {
+function limiter(
+  pool: pg.Pool,
+  prefix: string,
+  limit: number,
+  keyGenerator?: (req: Parameters<RequestHandler>[0]) => string,
+): RequestHandler {
   return rateLimit({
     windowMs: FIFTEEN_MINUTES,
     limit,

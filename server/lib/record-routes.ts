@@ -19,7 +19,13 @@ export interface RecordService<Input, Query, Item> {
 export function recordRoutes<Input, Query, Item>(
   table: RouteTable,
   base: string,
-  opts: { read: Permission; write: Permission; input: z.ZodType<Input>; listQuery: z.ZodType<Query>; service: RecordService<Input, Query, Item> },
+  opts: {
+    read: Permission
+    write: Permission
+    input: z.ZodType<Input>
+    listQuery: z.ZodType<Query>
+    service: RecordService<Input, Query, Item>
+  },
 ) {
   const { service } = opts
   const g = table.group(base)

@@ -2,11 +2,7 @@ import { type RequestHandler, Router } from 'express'
 import type { Permission } from '../../shared/auth/policy'
 import { guard } from '../middleware/auth'
 
-export type Access =
-  | { kind: 'public' }
-  | { kind: 'signed-in' }
-  | { kind: 'staff'; permission: Permission }
-  | { kind: 'customer' }
+export type Access = { kind: 'public' } | { kind: 'signed-in' } | { kind: 'staff'; permission: Permission } | { kind: 'customer' }
 
 export const anyone: Access = { kind: 'public' }
 export const signedIn: Access = { kind: 'signed-in' }

@@ -37,7 +37,8 @@ export function createStripeClient({ secretKey, apiBase }: StripeClientOptions):
   }
   if (base.protocol !== 'http:' && base.protocol !== 'https:') throw new Error(`STRIPE_API_BASE must be http or https: ${apiBase}`)
   if (base.pathname !== '/' || base.search || base.hash) throw new Error(`STRIPE_API_BASE must be an origin without a path: ${apiBase}`)
-  if (!secretKey.startsWith('sk_test_')) throw new Error('Only a test secret key (sk_test_…) may be sent to a Stripe stand-in set by STRIPE_API_BASE.')
+  if (!secretKey.startsWith('sk_test_'))
+    throw new Error('Only a test secret key (sk_test_…) may be sent to a Stripe stand-in set by STRIPE_API_BASE.')
   const protocol = base.protocol === 'https:' ? 'https' : 'http'
   return new Stripe(secretKey, {
     ...common,

@@ -29,4 +29,3 @@ export function csrfProtection(allowedOrigins: string[]): RequestHandler {
     next(new ForbiddenError('This request is missing its CSRF token.', 'csrf_rejected'))
   }
 }
-

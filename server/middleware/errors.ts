@@ -26,7 +26,9 @@ export const errorHandler: ErrorRequestHandler = (err: unknown, req, res, _next)
   if (err instanceof Error && err.name === 'MulterError') {
     const code = (err as Error & { code?: string }).code
     if (code === 'LIMIT_FILE_SIZE') {
-      res.status(413).json({ error: { code: 'photo_too_large', message: 'That photo is over 15 MB. Take it at a lower resolution or send a smaller copy.' } })
+      res.status(413).json({
+        error: { code: 'photo_too_large', message: 'That photo is over 15 MB. Take it at a lower resolution or send a smaller copy.' },
+      })
     } else if (code === 'LIMIT_FILE_COUNT' || code === 'LIMIT_UNEXPECTED_FILE') {
       res.status(413).json({ error: { code: 'too_many_photos', message: 'Send at most 10 photos at a time, in the "photos" field.' } })
     } else {

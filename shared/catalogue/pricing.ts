@@ -38,12 +38,14 @@ export function markedUpPrice(costMinor: number, markupPercent: string, currency
   return multiplyHalfUp(costMinor, 10_000n + BigInt(toHundredths(markupPercent)), 4n, currency)
 }
 
-export type SellPrice =
-  | { amountMinor: number; source: 'fixed' }
-  | { amountMinor: number; source: 'markup'; markupPercent: string }
+export type SellPrice = { amountMinor: number; source: 'fixed' } | { amountMinor: number; source: 'markup'; markupPercent: string }
 
 /** A part's sell price: its fixed price if it has one, else its cost marked up by its band; null if no band covers the cost. */
-export function sellPrice(part: { costMinor: number; sellPriceMinor: number | null }, bands: readonly MarkupBand[], currency: string): SellPrice | null {
+export function sellPrice(
+  part: { costMinor: number; sellPriceMinor: number | null },
+  bands: readonly MarkupBand[],
+  currency: string,
+): SellPrice | null {
   if (part.sellPriceMinor !== null) return { amountMinor: part.sellPriceMinor, source: 'fixed' }
   const band = bandFor(part.costMinor, bands)
   if (!band) return null
@@ -51,7 +53,8 @@ export function sellPrice(part: { costMinor: number; sellPriceMinor: number | nu
 }
 
 function multiplyHalfUp(amountMinor: number, factor: bigint, factorScale: bigint, code: string): number {
-  if (!Number.isSafeInteger(amountMinor) || amountMinor < 0) throw new RangeError(`Not a non-negative whole number of minor units: ${amountMinor}`)
+  if (!Number.isSafeInteger(amountMinor) || amountMinor < 0)
+    throw new RangeError(`Not a non-negative whole number of minor units: ${amountMinor}`)
   const currency = currencyFor(code)
   const product = multiply(dinero({ amount: BigInt(amountMinor), currency }), { amount: factor, scale: factorScale })
   const rounded = toSnapshot(transformScale(product, currency.exponent, halfUp))

@@ -9,7 +9,7 @@ import {
   type ScopeLineResult,
   type ScopeResult,
   type SharedStep,
-} from '../schemas/estimate'
+} from './contract'
 import { formatScaled, HOURS_PLACES, PERCENT_PLACES } from './decimal'
 import { type InputIssue, type LinePrice, type PreparedEstimate, type PreparedItem, type PreparedLine, prepareEstimate } from './prepare'
 
@@ -132,7 +132,14 @@ function walk(p: PreparedEstimate, scope: Scope): LinePrice[][] {
           const step = p.steps[s]!
           sharedHours += step.hours
           shared ??= []
-          shared.push({ step: step.code, label: step.label, hours: step.hoursText, itemId: p.items[by]!.id, itemNumber: by + 1, line: coverLine[s]! })
+          shared.push({
+            step: step.code,
+            label: step.label,
+            hours: step.hoursText,
+            itemId: p.items[by]!.id,
+            itemNumber: by + 1,
+            line: coverLine[s]!,
+          })
         } else {
           coverItem[s] = i
           coverLine[s] = j
@@ -245,9 +252,7 @@ function taxByRate(p: PreparedEstimate, groups: Map<string, RateGroup>): RateTot
     .sort((a, b) => (a.taxRate < b.taxRate ? -1 : a.taxRate > b.taxRate ? 1 : 0))
     .map((g) => {
       const tax =
-        p.taxRounding === 'per-line'
-          ? g.lineTax
-          : taxOn(p, g.amount, g.taxRate, p.taxRounding === 'per-invoice' ? 'half-up' : 'down')
+        p.taxRounding === 'per-line' ? g.lineTax : taxOn(p, g.amount, g.taxRate, p.taxRounding === 'per-invoice' ? 'half-up' : 'down')
       const { net, gross } = netAndGross(p, g.amount, tax)
       return { key: g.key, taxRate: g.taxRate, net, tax, gross }
     })
@@ -340,7 +345,11 @@ function scopeResult(p: PreparedEstimate, entries: Entry[]): ScopeResult {
  * The deposit asked for, kept within what a card can take: never above the gross; raised to the
  * card minimum when it is smaller; none at all when even the whole gross is under that minimum.
  */
-function depositFor(p: PreparedEstimate, gross: bigint, partsGross: bigint): { deposit: bigint; adjustment: ScopeResult['depositAdjustment'] } {
+function depositFor(
+  p: PreparedEstimate,
+  gross: bigint,
+  partsGross: bigint,
+): { deposit: bigint; adjustment: ScopeResult['depositAdjustment'] } {
   const policy = p.deposit
   let deposit =
     policy.kind === 'percent'

@@ -4,7 +4,7 @@
  * than the book time. Every problem comes back with the path of the field to fix.
  */
 import { defaultMinimumCharge, minorUnitExponent, multiplyRounded } from '../money'
-import type { Decision, EstimateInput, SharedStep } from '../schemas/estimate'
+import type { Decision, EstimateInput, SharedStep } from './contract'
 import { formatScaled, HOURS_PLACES, parseScaled, PERCENT_PLACES, QUANTITY_PLACES } from './decimal'
 
 export interface InputIssue {
@@ -126,13 +126,22 @@ export function prepareEstimate(input: EstimateInput): Prepared {
       // Every line is built with the same fields in the same order; object spreads here made
       // each line a slow, differently shaped object and cost more than the arithmetic.
       if (line.kind === 'part') {
-        const quantity = atMost(parseScaled(line.quantity, QUANTITY_PLACES), MAX_QUANTITY, QUANTITY_PLACES, 'Quantity', () => linePath(i, j, 'quantity'), issues)
+        const quantity = atMost(
+          parseScaled(line.quantity, QUANTITY_PLACES),
+          MAX_QUANTITY,
+          QUANTITY_PLACES,
+          'Quantity',
+          () => linePath(i, j, 'quantity'),
+          issues,
+        )
         const fullAmount = multiplyRounded(BigInt(line.unitPrice), quantity, QUANTITY_PLACES, 'half-up')
         return preparedLine('part', line.description, j, taxRate, taxKey, fullAmount, 0n, 0, [])
       }
       if (line.kind === 'fee') return preparedLine('fee', line.description, j, taxRate, taxKey, BigInt(line.amount), 0n, 0, [])
 
-      const hours = Number(atMost(parseScaled(line.hours, HOURS_PLACES), MAX_HOURS, HOURS_PLACES, 'Hours', () => linePath(i, j, 'hours'), issues))
+      const hours = Number(
+        atMost(parseScaled(line.hours, HOURS_PLACES), MAX_HOURS, HOURS_PLACES, 'Hours', () => linePath(i, j, 'hours'), issues),
+      )
       const rate = BigInt(line.rate)
       const fullAmount = multiplyRounded(rate, BigInt(hours), HOURS_PLACES, 'half-up')
       const lineSteps: number[] = []
@@ -165,9 +174,13 @@ export function prepareEstimate(input: EstimateInput): Prepared {
   const discount = input.discount
   const deposit = input.deposit
   const discountPercent =
-    discount?.kind === 'percent' ? atMost(parseScaled(discount.value, PERCENT_PLACES), MAX_PERCENT, PERCENT_PLACES, 'Percentage', () => ['discount', 'value'], issues) : 0n
+    discount?.kind === 'percent'
+      ? atMost(parseScaled(discount.value, PERCENT_PLACES), MAX_PERCENT, PERCENT_PLACES, 'Percentage', () => ['discount', 'value'], issues)
+      : 0n
   const depositPercent =
-    deposit.kind === 'percent' ? atMost(parseScaled(deposit.value, PERCENT_PLACES), MAX_PERCENT, PERCENT_PLACES, 'Percentage', () => ['deposit', 'value'], issues) : 0n
+    deposit.kind === 'percent'
+      ? atMost(parseScaled(deposit.value, PERCENT_PLACES), MAX_PERCENT, PERCENT_PLACES, 'Percentage', () => ['deposit', 'value'], issues)
+      : 0n
   if (issues.length > 0) return { ok: false, issues }
 
   return {
@@ -207,7 +220,18 @@ function preparedLine(
   hours: number,
   steps: number[],
 ): PreparedLine {
-  return { kind, description, index, taxRate, taxKey, fullAmount, rate, hours, steps, unshared: { amount: fullAmount, sharedHours: '0', saving: 0n, shared: [] } }
+  return {
+    kind,
+    description,
+    index,
+    taxRate,
+    taxKey,
+    fullAmount,
+    rate,
+    hours,
+    steps,
+    unshared: { amount: fullAmount, sharedHours: '0', saving: 0n, shared: [] },
+  }
 }
 
 function indexSteps(input: EstimateInput, issues: InputIssue[]): Map<string, number> {
@@ -218,7 +242,8 @@ function indexSteps(input: EstimateInput, issues: InputIssue[]): Map<string, num
   })
   input.accessSteps.forEach((step, i) => {
     step.includes.forEach((code, k) => {
-      if (!index.has(code)) issues.push({ path: ['accessSteps', i, 'includes', k], message: `Access step "${step.code}" includes unknown step "${code}"` })
+      if (!index.has(code))
+        issues.push({ path: ['accessSteps', i, 'includes', k], message: `Access step "${step.code}" includes unknown step "${code}"` })
     })
   })
   return index

@@ -38,13 +38,19 @@ export type Verdict = 'normal' | 'faulty'
  */
 export function diffOperationVerdict(s: DiffOperationSteps): Verdict {
   const normal =
-    s.propTurnsWheelsSameWay === 'yes' && s.heldPropOtherWheelOpposite === 'yes' && s.heldWheelPropTurns === 'yes' && s.wheelStiff === 'no' && s.propWontStop === 'no'
+    s.propTurnsWheelsSameWay === 'yes' &&
+    s.heldPropOtherWheelOpposite === 'yes' &&
+    s.heldWheelPropTurns === 'yes' &&
+    s.wheelStiff === 'no' &&
+    s.propWontStop === 'no'
   return normal ? 'normal' : 'faulty'
 }
 
 /** Centre differential (common practice): unlocked, the outputs turn independently; locked, together; a large lag is excessive backlash. */
 export function centreDiffVerdict(s: CentreDiffSteps): Verdict {
-  return s.unlockedOutputsIndependent === 'yes' && s.lockedOutputsTogether === 'yes' && s.largeLagBetweenOutputs === 'no' ? 'normal' : 'faulty'
+  return s.unlockedOutputsIndependent === 'yes' && s.lockedOutputsTogether === 'yes' && s.largeLagBetweenOutputs === 'no'
+    ? 'normal'
+    : 'faulty'
 }
 
 export interface Suggestion {
@@ -85,13 +91,21 @@ export function suggestSeverity(check: CheckDefinition, value: ResultValue): Sug
       }
       if (input.test === 'diff-operation' && value.kind === 'diff-operation') {
         const verdict = diffOperationVerdict(value.steps)
-        return { severity: verdict === 'normal' ? 'ok' : input.faultySeverity, detail: verdict === 'normal' ? 'Differential works normally' : 'Differential unit faulty' }
+        return {
+          severity: verdict === 'normal' ? 'ok' : input.faultySeverity,
+          detail: verdict === 'normal' ? 'Differential works normally' : 'Differential unit faulty',
+        }
       }
       if (input.test === 'centre-diff' && value.kind === 'centre-diff') {
         const verdict = centreDiffVerdict(value.steps)
         return {
           severity: verdict === 'normal' ? 'ok' : input.faultySeverity,
-          detail: verdict === 'normal' ? 'Centre differential works normally' : value.steps.largeLagBetweenOutputs === 'yes' ? 'Excessive backlash between outputs' : 'Centre differential or its lock faulty',
+          detail:
+            verdict === 'normal'
+              ? 'Centre differential works normally'
+              : value.steps.largeLagBetweenOutputs === 'yes'
+                ? 'Excessive backlash between outputs'
+                : 'Centre differential or its lock faulty',
         }
       }
       if (input.test === 'slider-orientation' && value.kind === 'slider-orientation') {

@@ -22,7 +22,11 @@ export const labourSideLabels: Record<LabourSide, string> = { left: 'Left', righ
 export const labourCategories = ['standard', 'diagnostic', 'specialist'] as const
 export const LabourCategorySchema = z.enum(labourCategories, { error: `Choose a labour category: ${labourCategories.join(', ')}` })
 export type LabourCategory = z.infer<typeof LabourCategorySchema>
-export const labourCategoryLabels: Record<LabourCategory, string> = { standard: 'Standard', diagnostic: 'Diagnostic', specialist: 'Specialist' }
+export const labourCategoryLabels: Record<LabourCategory, string> = {
+  standard: 'Standard',
+  diagnostic: 'Diagnostic',
+  specialist: 'Specialist',
+}
 
 /** 9,999.99 hours in hundredths: the largest value numeric(6, 2) holds. */
 const MAX_HOURS = 999_999
@@ -30,13 +34,15 @@ const MAX_HOURS = 999_999
 export const MAX_MINOR = 100_000_000
 
 function decimalText(what: string, opts: { max: number; above?: number }) {
-  return z
-    .string({ error: `Enter the ${what}` })
-    .trim()
-    .regex(decimalPattern, `Write the ${what} as a number like 1.5, with at most 2 decimal places`)
-    // zod runs every check even after the pattern fails, so each refinement checks the pattern first.
-    .refine((v) => !decimalPattern.test(v) || toHundredths(v) <= opts.max, `The ${what} is too large`)
-    .refine((v) => !decimalPattern.test(v) || opts.above === undefined || toHundredths(v) > opts.above, `The ${what} must be more than 0`)
+  return (
+    z
+      .string({ error: `Enter the ${what}` })
+      .trim()
+      .regex(decimalPattern, `Write the ${what} as a number like 1.5, with at most 2 decimal places`)
+      // zod runs every check even after the pattern fails, so each refinement checks the pattern first.
+      .refine((v) => !decimalPattern.test(v) || toHundredths(v) <= opts.max, `The ${what} is too large`)
+      .refine((v) => !decimalPattern.test(v) || opts.above === undefined || toHundredths(v) > opts.above, `The ${what} must be more than 0`)
+  )
 }
 
 export const BookHoursSchema = decimalText('book time', { max: MAX_HOURS, above: 0 })
@@ -219,7 +225,11 @@ export const PricingInputSchema = z
   .superRefine((p, ctx) => {
     const bands = p.markupBands
     if (bands.length > 0 && bands[0]?.fromCostMinor !== 0) {
-      ctx.addIssue({ code: 'custom', path: ['markupBands', 0, 'fromCostMinor'], message: 'The first band starts at 0, so every cost has a markup' })
+      ctx.addIssue({
+        code: 'custom',
+        path: ['markupBands', 0, 'fromCostMinor'],
+        message: 'The first band starts at 0, so every cost has a markup',
+      })
     }
     bands.forEach((band, i) => {
       const before = bands[i - 1]

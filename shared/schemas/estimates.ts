@@ -16,7 +16,7 @@ import {
   TaxModeSchema,
   TaxRoundingSchema,
   type EstimateInput,
-} from './estimate'
+} from '../estimate/contract'
 import { SeveritySchema } from './severity'
 import { ExplanationSchema } from './inspections'
 import { listQuerySchema } from './common'
@@ -74,7 +74,11 @@ export type EstimateDraft = z.infer<typeof EstimateDraftSchema>
 export type EstimateDraftInput = z.input<typeof EstimateDraftSchema>
 
 /** The engine input for a draft, with one decision per item (pending when not given). */
-export function draftToEngineInput(draft: EstimateDraft, currency: string, decisions: Readonly<Record<string, z.infer<typeof DecisionSchema>>> = {}): EstimateInput {
+export function draftToEngineInput(
+  draft: EstimateDraft,
+  currency: string,
+  decisions: Readonly<Record<string, z.infer<typeof DecisionSchema>>> = {},
+): EstimateInput {
   return {
     currency,
     taxMode: draft.taxMode,
@@ -90,9 +94,22 @@ export function draftToEngineInput(draft: EstimateDraft, currency: string, decis
       lines: item.lines.map((line) => {
         switch (line.kind) {
           case 'labour':
-            return { kind: 'labour', description: line.description, hours: line.hours, rate: line.rate, taxRate: line.taxRate, accessSteps: line.accessSteps }
+            return {
+              kind: 'labour',
+              description: line.description,
+              hours: line.hours,
+              rate: line.rate,
+              taxRate: line.taxRate,
+              accessSteps: line.accessSteps,
+            }
           case 'part':
-            return { kind: 'part', description: line.description, quantity: line.quantity, unitPrice: line.unitPrice, taxRate: line.taxRate }
+            return {
+              kind: 'part',
+              description: line.description,
+              quantity: line.quantity,
+              unitPrice: line.unitPrice,
+              taxRate: line.taxRate,
+            }
           case 'fee':
             return { kind: 'fee', description: line.description, amount: line.amount, taxRate: line.taxRate }
         }
@@ -157,7 +174,13 @@ export const EstimateSnapshotSchema = z.strictObject({
     vatNumber: z.string().nullable(),
   }),
   customer: z.strictObject({ id: z.uuid(), name: z.string(), email: z.string().nullable() }),
-  vehicle: z.strictObject({ registration: z.string(), make: z.string(), model: z.string(), year: z.int().nullable(), vin: z.string().nullable() }),
+  vehicle: z.strictObject({
+    registration: z.string(),
+    make: z.string(),
+    model: z.string(),
+    year: z.int().nullable(),
+    vin: z.string().nullable(),
+  }),
   message: z.string(),
   items: z.array(SnapshotItemSchema),
   accessSteps: z.array(AccessStepSchema),
@@ -170,10 +193,21 @@ export type EstimateSnapshot = z.infer<typeof EstimateSnapshotSchema>
 export type SnapshotItem = z.infer<typeof SnapshotItemSchema>
 
 /** The engine input a snapshot describes, with the customer's decisions. */
-export function snapshotToEngineInput(snapshot: EstimateSnapshot, decisions: Readonly<Record<string, z.infer<typeof DecisionSchema>>> = {}): EstimateInput {
+export function snapshotToEngineInput(
+  snapshot: EstimateSnapshot,
+  decisions: Readonly<Record<string, z.infer<typeof DecisionSchema>>> = {},
+): EstimateInput {
   return draftToEngineInput(
     {
-      items: snapshot.items.map((i) => ({ id: i.id, findingId: null, title: i.title, severity: i.severity, customerNote: i.customerNote, requires: i.requires, lines: i.lines })),
+      items: snapshot.items.map((i) => ({
+        id: i.id,
+        findingId: null,
+        title: i.title,
+        severity: i.severity,
+        customerNote: i.customerNote,
+        requires: i.requires,
+        lines: i.lines,
+      })),
       accessSteps: snapshot.accessSteps,
       taxMode: snapshot.taxMode,
       taxRounding: snapshot.taxRounding,

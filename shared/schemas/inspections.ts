@@ -3,7 +3,10 @@ import { assessStands } from '../inspection/rules'
 import { SeveritySchema } from './severity'
 
 /** Decimal numbers travel as strings ("45", "0.125") so no binary float ever rounds a measurement. */
-export const DecimalStringSchema = z.string().trim().regex(/^\d+(\.\d+)?$/, 'Enter a number, like 12 or 0.5')
+export const DecimalStringSchema = z
+  .string()
+  .trim()
+  .regex(/^\d+(\.\d+)?$/, 'Enter a number, like 12 or 0.5')
 
 export const areaCodes = ['swivel-housings', 'cv-joints', 'prop-shafts', 'axle-differentials', 'transfer-box', 'half-shafts-hubs'] as const
 export const AreaCodeSchema = z.enum(areaCodes)
@@ -74,15 +77,13 @@ export const CheckDefinitionSchema = z.object({
 })
 export type CheckDefinition = z.infer<typeof CheckDefinitionSchema>
 
-export const TemplateDefinitionSchema = z
-  .object({ checks: z.array(CheckDefinitionSchema).min(1).max(200) })
-  .superRefine((d, ctx) => {
-    const seen = new Set<string>()
-    d.checks.forEach((c, i) => {
-      if (seen.has(c.code)) ctx.addIssue({ code: 'custom', path: ['checks', i, 'code'], message: `The code ${c.code} is used twice` })
-      seen.add(c.code)
-    })
+export const TemplateDefinitionSchema = z.object({ checks: z.array(CheckDefinitionSchema).min(1).max(200) }).superRefine((d, ctx) => {
+  const seen = new Set<string>()
+  d.checks.forEach((c, i) => {
+    if (seen.has(c.code)) ctx.addIssue({ code: 'custom', path: ['checks', i, 'code'], message: `The code ${c.code} is used twice` })
+    seen.add(c.code)
   })
+})
 export type TemplateDefinition = z.infer<typeof TemplateDefinitionSchema>
 
 export const CheckTemplateSchema = z.object({

@@ -8,7 +8,7 @@
  */
 import { z } from 'zod'
 import { CustomerPrincipalSchema } from './auth'
-import { DecisionSchema, EstimateResultSchema } from './estimate'
+import { DecisionSchema, EstimateResultSchema } from '../estimate/contract'
 import { EstimateSnapshotSchema, EstimateStatusSchema } from './estimates'
 
 const Id = z.uuid({ error: 'Not a valid id' })

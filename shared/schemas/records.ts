@@ -33,8 +33,10 @@ export const CustomerInputSchema = z
   })
   .superRefine((c, ctx) => {
     if (!c.email && !c.phone) ctx.addIssue({ code: 'custom', path: ['email'], message: 'Enter an e-mail address or a phone number' })
-    if (c.contactByEmail && !c.email) ctx.addIssue({ code: 'custom', path: ['contactByEmail'], message: 'Add an e-mail address to contact them by e-mail' })
-    if ((c.contactByPhone || c.contactBySms) && !c.phone) ctx.addIssue({ code: 'custom', path: ['phone'], message: 'Add a phone number to contact them by phone or text' })
+    if (c.contactByEmail && !c.email)
+      ctx.addIssue({ code: 'custom', path: ['contactByEmail'], message: 'Add an e-mail address to contact them by e-mail' })
+    if ((c.contactByPhone || c.contactBySms) && !c.phone)
+      ctx.addIssue({ code: 'custom', path: ['phone'], message: 'Add a phone number to contact them by phone or text' })
   })
 export type CustomerInput = z.infer<typeof CustomerInputSchema>
 
@@ -55,7 +57,10 @@ export const CustomerSchema = z.object({
 export type Customer = z.infer<typeof CustomerSchema>
 
 export const CustomerListQuerySchema = listQuerySchema(['name', 'createdAt'] as const).extend({
-  archived: z.enum(['true', 'false']).transform((v) => v === 'true').optional(),
+  archived: z
+    .enum(['true', 'false'])
+    .transform((v) => v === 'true')
+    .optional(),
 })
 export type CustomerListQuery = z.infer<typeof CustomerListQuerySchema>
 
@@ -69,11 +74,27 @@ export const VehicleInputSchema = z.object({
     .toUpperCase()
     .min(1, 'Enter the registration')
     .max(16, 'That registration is too long'),
-  vin: z.union([z.literal(''), VinSchema]).transform((v) => (v === '' ? null : v)).nullable().optional(),
+  vin: z
+    .union([z.literal(''), VinSchema])
+    .transform((v) => (v === '' ? null : v))
+    .nullable()
+    .optional(),
   make: z.string({ error: 'Enter the make' }).trim().min(1, 'Enter the make').max(60, 'At most 60 characters'),
   model: z.string({ error: 'Enter the model' }).trim().min(1, 'Enter the model').max(80, 'At most 80 characters'),
-  year: z.coerce.number({ error: 'Enter a year like 2014' }).int('Enter a year like 2014').min(1886, 'Cars were not made before 1886').max(thisYear + 1, `Not later than ${thisYear + 1}`).nullable().optional(),
-  odometer: z.coerce.number({ error: 'Enter the reading in figures' }).int('Whole miles or kilometres only').min(0, 'Cannot be negative').max(5_000_000, 'That reading is too high').nullable().optional(),
+  year: z.coerce
+    .number({ error: 'Enter a year like 2014' })
+    .int('Enter a year like 2014')
+    .min(1886, 'Cars were not made before 1886')
+    .max(thisYear + 1, `Not later than ${thisYear + 1}`)
+    .nullable()
+    .optional(),
+  odometer: z.coerce
+    .number({ error: 'Enter the reading in figures' })
+    .int('Whole miles or kilometres only')
+    .min(0, 'Cannot be negative')
+    .max(5_000_000, 'That reading is too high')
+    .nullable()
+    .optional(),
   odometerUnit: z.enum(['mi', 'km']).default('mi'),
   vehicleGroup: optionalText(60),
 })
@@ -98,7 +119,10 @@ export type Vehicle = z.infer<typeof VehicleSchema>
 
 export const VehicleListQuerySchema = listQuerySchema(['registration', 'make', 'createdAt'] as const).extend({
   customerId: z.uuid().optional(),
-  archived: z.enum(['true', 'false']).transform((v) => v === 'true').optional(),
+  archived: z
+    .enum(['true', 'false'])
+    .transform((v) => v === 'true')
+    .optional(),
 })
 export type VehicleListQuery = z.infer<typeof VehicleListQuerySchema>
 
@@ -115,7 +139,11 @@ export const jobStatusLabels: Record<JobStatus, string> = {
   cancelled: 'Cancelled',
 }
 
-const isoDate = z.union([z.literal(''), z.iso.date({ error: 'Use a date like 2026-12-02' })]).transform((v) => (v === '' ? null : v)).nullable().optional()
+const isoDate = z
+  .union([z.literal(''), z.iso.date({ error: 'Use a date like 2026-12-02' })])
+  .transform((v) => (v === '' ? null : v))
+  .nullable()
+  .optional()
 
 export const JobInputSchema = z
   .object({

@@ -16,7 +16,11 @@ export const WorkshopSettingsSchema = z.object({
   addressLines: z.array(z.string().trim().min(1).max(120)).max(5, 'At most 5 address lines'),
   postcode: optionalText(20),
   phone: optionalText(40),
-  email: z.union([z.literal(''), z.email({ error: 'Enter a valid e-mail address' })]).transform((v) => (v === '' ? null : v)).nullable().optional(),
+  email: z
+    .union([z.literal(''), z.email({ error: 'Enter a valid e-mail address' })])
+    .transform((v) => (v === '' ? null : v))
+    .nullable()
+    .optional(),
   // UK VAT registration numbers are GB followed by 9 digits (or 12 for branch traders); other formats are allowed for non-UK shops.
   vatNumber: optionalText(20),
   currency: z.string().regex(/^[A-Z]{3}$/, 'Use a three-letter ISO 4217 code, like GBP'),

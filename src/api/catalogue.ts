@@ -53,7 +53,9 @@ export function getOperation(id: string): Promise<LabourOperation> {
 
 /** Rejects with 422 (issues on fields such as `['body', 'bookHours']`) or 409 `code_taken`. */
 export function saveOperation(input: LabourOperationInput, id?: string): Promise<LabourOperation> {
-  return id ? request<LabourOperation>('PUT', operationPath(id), { body: input }) : request<LabourOperation>('POST', '/labour-operations', { body: input })
+  return id
+    ? request<LabourOperation>('PUT', operationPath(id), { body: input })
+    : request<LabourOperation>('POST', '/labour-operations', { body: input })
 }
 
 export function setOperationArchived(id: string, archived: boolean): Promise<LabourOperation> {

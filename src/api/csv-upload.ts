@@ -37,7 +37,9 @@ export function uploadCsv<T>(path: string, text: string, onProgress?: (fraction:
       reject(failedAnswer(xhr.status, body))
     })
     xhr.addEventListener('error', () => {
-      reject(new ApiError(0, 'network_error', 'The file could not be sent: the server cannot be reached. Check the connection and try again.'))
+      reject(
+        new ApiError(0, 'network_error', 'The file could not be sent: the server cannot be reached. Check the connection and try again.'),
+      )
     })
     xhr.addEventListener('timeout', () => {
       reject(new ApiError(0, 'network_error', 'Sending the file took too long. Check the connection and try again.'))

@@ -108,7 +108,9 @@ export async function request<T>(method: string, path: string, options: RequestO
  * a 401 also reaches the one unauthorized handler. Shared with the upload helper in upload.ts.
  */
 export function failedAnswer(status: number, body: unknown): ApiError {
-  const error = isErrorBody(body) ? new ApiError(status, body.error.code, body.error.message, body.error.issues, body.error.details) : unexpectedAnswer(status)
+  const error = isErrorBody(body)
+    ? new ApiError(status, body.error.code, body.error.message, body.error.issues, body.error.details)
+    : unexpectedAnswer(status)
   if (status === 401) unauthorizedHandler?.(error)
   return error
 }

@@ -45,10 +45,18 @@ export function uploadForm<T>(path: string, form: FormData, options: UploadOptio
       reject(failedAnswer(xhr.status, body))
     })
     xhr.addEventListener('error', () => {
-      reject(new ApiError(0, 'network_error', 'The photos could not be sent: the server cannot be reached. Check the connection and try again.'))
+      reject(
+        new ApiError(0, 'network_error', 'The photos could not be sent: the server cannot be reached. Check the connection and try again.'),
+      )
     })
     xhr.addEventListener('timeout', () => {
-      reject(new ApiError(0, 'network_error', 'Sending the photos took too long. Check the connection and try again, perhaps with fewer photos.'))
+      reject(
+        new ApiError(
+          0,
+          'network_error',
+          'Sending the photos took too long. Check the connection and try again, perhaps with fewer photos.',
+        ),
+      )
     })
     xhr.addEventListener('abort', () => {
       reject(new ApiError(0, 'upload_stopped', 'The upload was stopped before it finished.'))

@@ -93,7 +93,10 @@ function otherDetails(details: Record<string, unknown>): string {
  * One readable line for the details of an event, e.g. "Kit Hollins: technician → owner".
  * `names` maps staff ids to names, so the person an event was about can be named.
  */
-export function describeDetails(event: Pick<AuditEvent, 'action' | 'details' | 'subjectType' | 'subjectId'>, names: Record<string, string> = {}): string {
+export function describeDetails(
+  event: Pick<AuditEvent, 'action' | 'details' | 'subjectType' | 'subjectId'>,
+  names: Record<string, string> = {},
+): string {
   const { details } = event
   const subject = event.subjectType === 'staff' && event.subjectId ? names[event.subjectId] : undefined
   const about = (text: string) => (subject ? `${subject}: ${text}` : text)

@@ -61,7 +61,11 @@ type StepSource = Pick<OperationAccessStep, 'code' | 'name' | 'hours' | 'include
  * workshop's step graph, when it is at hand): the engine needs each included step to share time.
  * A step already on the draft is kept as it is, so an earlier line's figures do not shift.
  */
-export function mergeAccessSteps(current: EstimateDraft['accessSteps'], added: readonly StepSource[], graph: readonly CatalogueAccessStep[] = []): EstimateDraft['accessSteps'] {
+export function mergeAccessSteps(
+  current: EstimateDraft['accessSteps'],
+  added: readonly StepSource[],
+  graph: readonly CatalogueAccessStep[] = [],
+): EstimateDraft['accessSteps'] {
   const known = new Map(graph.map((s) => [s.code, s as StepSource]))
   for (const s of added) known.set(s.code, s)
   const result = [...current]

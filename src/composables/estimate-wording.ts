@@ -1,4 +1,4 @@
-import type { Decision } from '@shared/schemas/estimate'
+import type { Decision } from '@shared/estimate/contract'
 import type { EstimateDetail, EstimateVersionSummary, ItemDecision } from '@shared/schemas/estimates'
 
 const momentFormats = new Map<string, Intl.DateTimeFormat>()
@@ -15,7 +15,13 @@ function cached(map: Map<string, Intl.DateTimeFormat>, timeZone: string, options
 
 /** "2 Dec 14:03" by the workshop's clock: estimates live for weeks, so the year would only be noise. */
 export function formatMoment(iso: string, timeZone: string): string {
-  const parts = cached(momentFormats, timeZone, { day: 'numeric', month: 'short', hour: '2-digit', minute: '2-digit', hourCycle: 'h23' }).formatToParts(new Date(iso))
+  const parts = cached(momentFormats, timeZone, {
+    day: 'numeric',
+    month: 'short',
+    hour: '2-digit',
+    minute: '2-digit',
+    hourCycle: 'h23',
+  }).formatToParts(new Date(iso))
   const part = (type: Intl.DateTimeFormatPartTypes) => parts.find((p) => p.type === type)?.value ?? ''
   return `${part('day')} ${part('month')} ${part('hour')}:${part('minute')}`
 }
@@ -26,14 +32,21 @@ export function formatClock(iso: string, timeZone: string): string {
 }
 
 export function latestVersion(detail: Pick<EstimateDetail, 'versions'>): EstimateVersionSummary | null {
-  return detail.versions.reduce<EstimateVersionSummary | null>((latest, v) => (latest === null || v.version > latest.version ? v : latest), null)
+  return detail.versions.reduce<EstimateVersionSummary | null>(
+    (latest, v) => (latest === null || v.version > latest.version ? v : latest),
+    null,
+  )
 }
 
 /**
  * "Version 2 — draft, not sent" while there is something the customer has not seen, else
  * "Version 2 sent 2 Dec 14:03". `localChanges` counts edits the server has not had yet.
  */
-export function versionHeadline(detail: Pick<EstimateDetail, 'versions' | 'hasUnsentChanges'>, timeZone: string, localChanges = false): string {
+export function versionHeadline(
+  detail: Pick<EstimateDetail, 'versions' | 'hasUnsentChanges'>,
+  timeZone: string,
+  localChanges = false,
+): string {
   const latest = latestVersion(detail)
   if (!latest) return 'Version 1 — draft, not sent'
   if (detail.hasUnsentChanges || localChanges) return `Version ${latest.version + 1} — draft, not sent`

@@ -4,8 +4,10 @@ import { type IssueLike, plainMessage, type ServerProblem } from './field-errors
 
 /** plainMessage, plus lists: zod's own wording for them is written for developers too. */
 export function plainIssueMessage(issue: IssueLike): string {
-  if (issue.origin === 'array' && issue.code === 'too_big' && issue.message.startsWith('Too big')) return `Choose at most ${String(issue.maximum)}`
-  if (issue.origin === 'array' && issue.code === 'too_small' && issue.message.startsWith('Too small')) return `Choose at least ${String(issue.minimum)}`
+  if (issue.origin === 'array' && issue.code === 'too_big' && issue.message.startsWith('Too big'))
+    return `Choose at most ${String(issue.maximum)}`
+  if (issue.origin === 'array' && issue.code === 'too_small' && issue.message.startsWith('Too small'))
+    return `Choose at least ${String(issue.minimum)}`
   return plainMessage(issue)
 }
 

@@ -1,6 +1,6 @@
 import { safeCalculateEstimate } from '@shared/estimate'
 import { formatMoney } from '@shared/money'
-import type { Decision, EstimateResult, ItemLineResult } from '@shared/schemas/estimate'
+import type { Decision, EstimateResult, ItemLineResult } from '@shared/estimate/contract'
 import type { SnapshotItem } from '@shared/schemas/estimates'
 import { severities, type Severity } from '@shared/schemas/severity'
 
@@ -14,7 +14,9 @@ export interface SeverityGroup {
 
 /** Items by severity, most serious first; within a level the workshop's own order is kept. */
 export function groupBySeverity(items: readonly SnapshotItem[]): SeverityGroup[] {
-  return severityOrder.map((severity) => ({ severity, items: items.filter((i) => i.severity === severity) })).filter((g) => g.items.length > 0)
+  return severityOrder
+    .map((severity) => ({ severity, items: items.filter((i) => i.severity === severity) }))
+    .filter((g) => g.items.length > 0)
 }
 
 /** "item 1 (Front hub strip)", the way the server's refusals name items. */
@@ -47,7 +49,14 @@ export function savingWithTax(saving: number, taxRate: string, result: Pick<Esti
     currency: result.currency,
     taxMode: result.taxMode,
     taxRounding: 'per-line',
-    items: [{ id: 'saving', title: 'Shared access saving', decision: 'approved', lines: [{ kind: 'fee', description: 'saving', amount: saving, taxRate }] }],
+    items: [
+      {
+        id: 'saving',
+        title: 'Shared access saving',
+        decision: 'approved',
+        lines: [{ kind: 'fee', description: 'saving', amount: saving, taxRate }],
+      },
+    ],
   })
   return priced.success ? priced.data.approved.gross : saving
 }
@@ -69,7 +78,12 @@ export function approvedSavingWithTax(result: EstimateResult): number {
     currency: result.currency,
     taxMode: result.taxMode,
     taxRounding: 'per-line',
-    items: lines.map((l, n) => ({ id: `saving-${n}`, title: 'Shared access saving', decision: 'approved', lines: [{ kind: 'fee', description: 'saving', amount: l.sharedSaving, taxRate: l.taxRate }] })),
+    items: lines.map((l, n) => ({
+      id: `saving-${n}`,
+      title: 'Shared access saving',
+      decision: 'approved',
+      lines: [{ kind: 'fee', description: 'saving', amount: l.sharedSaving, taxRate: l.taxRate }],
+    })),
   })
   return priced.success ? priced.data.approved.gross : result.approved.sharedSaving
 }

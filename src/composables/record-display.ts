@@ -32,8 +32,8 @@ export function odometerText(v: Pick<Vehicle, 'odometer' | 'odometerUnit'>): str
 
 /** "E-mail and text message", or null when the customer asked for none. */
 export function contactPreferences(c: Pick<Customer, 'contactByEmail' | 'contactByPhone' | 'contactBySms'>): string | null {
-  const ways = [c.contactByEmail && 'e-mail', c.contactByPhone && 'phone call', c.contactBySms && 'text message'].filter(
-    (w): w is string => Boolean(w),
+  const ways = [c.contactByEmail && 'e-mail', c.contactByPhone && 'phone call', c.contactBySms && 'text message'].filter((w): w is string =>
+    Boolean(w),
   )
   if (ways.length === 0) return null
   const text = ways.length === 1 ? ways[0]! : `${ways.slice(0, -1).join(', ')} and ${ways.at(-1)}`

@@ -37,7 +37,13 @@ export const routes: RouteRecordRaw[] = [
         meta: { permission: 'customers:read' },
         children: [
           { path: '', name: 'customers', component: () => import('@/pages/staff/CustomersPage.vue'), meta: { title: 'Customers' } },
-          { path: ':id', name: 'customer', component: () => import('@/pages/staff/CustomerDetailPage.vue'), props: true, meta: { title: 'Customer' } },
+          {
+            path: ':id',
+            name: 'customer',
+            component: () => import('@/pages/staff/CustomerDetailPage.vue'),
+            props: true,
+            meta: { title: 'Customer' },
+          },
         ],
       },
       {
@@ -45,7 +51,13 @@ export const routes: RouteRecordRaw[] = [
         meta: { permission: 'vehicles:read' },
         children: [
           { path: '', name: 'vehicles', component: () => import('@/pages/staff/VehiclesPage.vue'), meta: { title: 'Vehicles' } },
-          { path: ':id', name: 'vehicle', component: () => import('@/pages/staff/VehicleDetailPage.vue'), props: true, meta: { title: 'Vehicle' } },
+          {
+            path: ':id',
+            name: 'vehicle',
+            component: () => import('@/pages/staff/VehicleDetailPage.vue'),
+            props: true,
+            meta: { title: 'Vehicle' },
+          },
         ],
       },
       {
@@ -61,7 +73,13 @@ export const routes: RouteRecordRaw[] = [
             props: true,
             meta: { title: 'Inspection', permission: 'inspections:write' },
           },
-          { path: ':id/findings', name: 'job-findings', component: () => import('@/pages/staff/JobFindingsPage.vue'), props: true, meta: { title: 'Findings' } },
+          {
+            path: ':id/findings',
+            name: 'job-findings',
+            component: () => import('@/pages/staff/JobFindingsPage.vue'),
+            props: true,
+            meta: { title: 'Findings' },
+          },
         ],
       },
       {
@@ -69,7 +87,13 @@ export const routes: RouteRecordRaw[] = [
         meta: { permission: 'estimates:read' },
         children: [
           { path: '', name: 'estimates', component: () => import('@/pages/staff/EstimatesPage.vue'), meta: { title: 'Estimates' } },
-          { path: ':id', name: 'estimate', component: () => import('@/pages/staff/EstimateDetailPage.vue'), props: true, meta: { title: 'Estimate' } },
+          {
+            path: ':id',
+            name: 'estimate',
+            component: () => import('@/pages/staff/EstimateDetailPage.vue'),
+            props: true,
+            meta: { title: 'Estimate' },
+          },
         ],
       },
       {
@@ -82,8 +106,19 @@ export const routes: RouteRecordRaw[] = [
         path: 'check-templates',
         meta: { permission: 'catalogue:manage' },
         children: [
-          { path: '', name: 'check-templates', component: () => import('@/pages/staff/CheckTemplatesPage.vue'), meta: { title: 'Check templates' } },
-          { path: ':id', name: 'check-template', component: () => import('@/pages/staff/CheckTemplateEditPage.vue'), props: true, meta: { title: 'Edit check template' } },
+          {
+            path: '',
+            name: 'check-templates',
+            component: () => import('@/pages/staff/CheckTemplatesPage.vue'),
+            meta: { title: 'Check templates' },
+          },
+          {
+            path: ':id',
+            name: 'check-template',
+            component: () => import('@/pages/staff/CheckTemplateEditPage.vue'),
+            props: true,
+            meta: { title: 'Edit check template' },
+          },
         ],
       },
       {
@@ -99,8 +134,18 @@ export const routes: RouteRecordRaw[] = [
           },
         ],
       },
-      { path: 'parts', name: 'parts', component: () => import('@/pages/staff/PartsPage.vue'), meta: { title: 'Parts', permission: 'estimates:write' } },
-      { path: 'pricing', name: 'pricing', component: () => import('@/pages/staff/PricingPage.vue'), meta: { title: 'Pricing', permission: 'estimates:write' } },
+      {
+        path: 'parts',
+        name: 'parts',
+        component: () => import('@/pages/staff/PartsPage.vue'),
+        meta: { title: 'Parts', permission: 'estimates:write' },
+      },
+      {
+        path: 'pricing',
+        name: 'pricing',
+        component: () => import('@/pages/staff/PricingPage.vue'),
+        meta: { title: 'Pricing', permission: 'estimates:write' },
+      },
       {
         path: 'team',
         name: 'team',
@@ -182,9 +227,27 @@ export const routes: RouteRecordRaw[] = [
         path: 'estimates/:id',
         meta: { requires: 'customer' },
         children: [
-          { path: '', name: 'portal-estimate', component: () => import('@/pages/portal/PortalEstimatePage.vue'), props: true, meta: { title: 'Your repair estimate' } },
-          { path: 'confirm', name: 'portal-confirm', component: () => import('@/pages/portal/PortalConfirmPage.vue'), props: true, meta: { title: 'Review and confirm' } },
-          { path: 'paid', name: 'portal-paid', component: () => import('@/pages/portal/PortalPaidPage.vue'), props: true, meta: { title: 'Your deposit' } },
+          {
+            path: '',
+            name: 'portal-estimate',
+            component: () => import('@/pages/portal/PortalEstimatePage.vue'),
+            props: true,
+            meta: { title: 'Your repair estimate' },
+          },
+          {
+            path: 'confirm',
+            name: 'portal-confirm',
+            component: () => import('@/pages/portal/PortalConfirmPage.vue'),
+            props: true,
+            meta: { title: 'Review and confirm' },
+          },
+          {
+            path: 'paid',
+            name: 'portal-paid',
+            component: () => import('@/pages/portal/PortalPaidPage.vue'),
+            props: true,
+            meta: { title: 'Your deposit' },
+          },
         ],
       },
     ],

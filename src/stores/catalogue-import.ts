@@ -28,7 +28,13 @@ export const useCatalogueImportStore = defineStore('catalogue-import', () => {
     return error.value.issues.map((i) => ({ row: Number(i.path[0]), column: String(i.path[1] ?? '') || null, message: i.message }))
   })
 
-  const canCommit = computed(() => phase.value === 'checked' && report.value !== null && report.value.errors.length === 0 && report.value.summary.added + report.value.summary.changed > 0)
+  const canCommit = computed(
+    () =>
+      phase.value === 'checked' &&
+      report.value !== null &&
+      report.value.errors.length === 0 &&
+      report.value.summary.added + report.value.summary.changed > 0,
+  )
 
   function start(which: CatalogueTable): void {
     table.value = which

@@ -26,7 +26,10 @@ export const useCheckTemplatesStore = defineStore('check-templates', () => {
     if (current.value?.id === template.id) current.value = template
     const listed = items.value.some((t) => t.id === template.id)
     if (template.archived) items.value = items.value.filter((t) => t.id !== template.id)
-    else items.value = listed ? items.value.map((t) => (t.id === template.id ? template : t)) : [...items.value, template].sort((a, b) => a.name.localeCompare(b.name))
+    else
+      items.value = listed
+        ? items.value.map((t) => (t.id === template.id ? template : t))
+        : [...items.value, template].sort((a, b) => a.name.localeCompare(b.name))
     return template
   }
 

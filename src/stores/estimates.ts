@@ -31,7 +31,13 @@ export const LIVE_REFRESH_DELAY_MS = 300
 export const STALE_MESSAGE = 'Someone else changed this estimate — reload to see their changes'
 
 /** Live events from the customer's side: worth a toast as well while the advisor has that estimate open. */
-const customerEvents = new Set<LiveEvent['type']>(['estimate.opened', 'estimate.decision', 'estimate.confirmed', 'estimate.deposit_paid', 'estimate.question'])
+const customerEvents = new Set<LiveEvent['type']>([
+  'estimate.opened',
+  'estimate.decision',
+  'estimate.confirmed',
+  'estimate.deposit_paid',
+  'estimate.question',
+])
 
 /**
  * The one place the estimate screens hear about changes as they happen. `caughtUp` runs after the
@@ -189,7 +195,9 @@ export const useEstimateStore = defineStore('estimate', () => {
   })
   const placed = computed(() => placeIssues(issues.value))
   const hasProblems = computed(() => issues.value.length > 0 || Object.keys(fieldProblems.value).length > 0)
-  const itemRefs = computed<ItemRef[]>(() => (draft.value?.items ?? []).map((item, i) => ({ id: item.id, number: i + 1, title: item.title })))
+  const itemRefs = computed<ItemRef[]>(() =>
+    (draft.value?.items ?? []).map((item, i) => ({ id: item.id, number: i + 1, title: item.title })),
+  )
   const isWithdrawn = computed(() => detail.value?.status === 'withdrawn')
   /** Edits wait while an action rewrites the draft on the server, so neither side's change is lost. */
   const isLocked = computed(() => busy.value === 'send' || busy.value === 'findings' || busy.value === 'withdraw')
@@ -535,7 +543,11 @@ export const useEstimateStore = defineStore('estimate', () => {
     if (findingIds.length === 0) return true
     if (!(await save())) return false
     const ok = await act('findings', (id) => estimatesApi.addFindings(id, baseRevision.value, findingIds))
-    if (ok) notifications.push('success', findingIds.length === 1 ? 'Item added from the finding.' : `${findingIds.length} items added from the findings.`)
+    if (ok)
+      notifications.push(
+        'success',
+        findingIds.length === 1 ? 'Item added from the finding.' : `${findingIds.length} items added from the findings.`,
+      )
     return ok
   }
 

@@ -137,7 +137,13 @@ export const useInspectionsStore = defineStore('inspections', () => {
   const readings = computed(() => {
     const map = new Map<string, Reading>()
     for (const r of current.value?.results ?? []) {
-      map.set(readingKey(r.checkCode, r.position), { value: r.value, severity: r.suggestedSeverity, detail: r.detail, state: 'saved', message: null })
+      map.set(readingKey(r.checkCode, r.position), {
+        value: r.value,
+        severity: r.suggestedSeverity,
+        detail: r.detail,
+        state: 'saved',
+        message: null,
+      })
     }
     for (const e of queueOfCurrent.value) {
       const suggestion = suggestionFor(checksByCode.value.get(e.result.checkCode), e.result.value)
@@ -148,7 +154,9 @@ export const useInspectionsStore = defineStore('inspections', () => {
   })
 
   /** Every check at every one of its positions, the unit progress is counted in. */
-  const slots = computed(() => (current.value?.definition.checks ?? []).flatMap((check) => check.positions.map((position) => ({ check, position }))))
+  const slots = computed(() =>
+    (current.value?.definition.checks ?? []).flatMap((check) => check.positions.map((position) => ({ check, position }))),
+  )
 
   const progress = computed(() => {
     const byArea = Object.fromEntries(areaCodes.map((a) => [a, { done: 0, total: 0 }])) as Record<AreaCode, { done: number; total: number }>

@@ -2,7 +2,16 @@ import { defineStore } from 'pinia'
 import { ref } from 'vue'
 import * as catalogueApi from '@/api/catalogue'
 import type { ApiError } from '@/api/http'
-import type { AccessStep, AccessStepInput, ClockTimeInput, LabourOperation, LabourOperationInput, LabourSide, LabourSystem, TimeComparisonRow } from '@shared/schemas/catalogue'
+import type {
+  AccessStep,
+  AccessStepInput,
+  ClockTimeInput,
+  LabourOperation,
+  LabourOperationInput,
+  LabourSide,
+  LabourSystem,
+  TimeComparisonRow,
+} from '@shared/schemas/catalogue'
 import type { Page } from '@shared/schemas/common'
 import { attempt, useRecordList } from './record-list'
 import { reportFailure } from './report-failure'

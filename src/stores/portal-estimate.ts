@@ -3,7 +3,7 @@ import { computed, ref } from 'vue'
 import type { ApiError } from '@/api/http'
 import * as portalApi from '@/api/portal'
 import { safeCalculateEstimate } from '@shared/estimate'
-import type { Decision, EstimateResult } from '@shared/schemas/estimate'
+import type { Decision, EstimateResult } from '@shared/estimate/contract'
 import { snapshotToEngineInput } from '@shared/schemas/estimates'
 import type {
   ConfirmResponse,
@@ -117,7 +117,9 @@ export const usePortalEstimateStore = defineStore('portal-estimate', () => {
   })
 
   const canDecide = computed(() => Boolean(estimate.value?.canDecide) && newerVersion.value === null && closedMessage.value === null)
-  const undecidedCount = computed(() => (estimate.value?.snapshot.items ?? []).filter((i) => (decisions.value[i.id] ?? 'pending') === 'pending').length)
+  const undecidedCount = computed(
+    () => (estimate.value?.snapshot.items ?? []).filter((i) => (decisions.value[i.id] ?? 'pending') === 'pending').length,
+  )
   const questions = computed<PortalQuestion[]>(() => estimate.value?.questions ?? [])
 
   function show(loaded: PortalEstimate): void {
@@ -242,7 +244,8 @@ export const usePortalEstimateStore = defineStore('portal-estimate', () => {
       return answer
     } catch (cause) {
       const failure = asApiError(cause)
-      if (failure.status === 409 && failure.code === 'superseded') newerVersion.value = latestVersionIn(failure.details) ?? shown.latestVersion + 1
+      if (failure.status === 409 && failure.code === 'superseded')
+        newerVersion.value = latestVersionIn(failure.details) ?? shown.latestVersion + 1
       else confirmError.value = failure
       return null
     } finally {
@@ -304,10 +307,17 @@ export const usePortalEstimateStore = defineStore('portal-estimate', () => {
     } catch (cause) {
       const failure = asApiError(cause)
       if (linkCodes.has(failure.code)) {
-        return { opened: false, refusal: { code: failure.code as LinkRefusalCode, message: failure.message, details: linkDetails(failure.details) } }
+        return {
+          opened: false,
+          refusal: { code: failure.code as LinkRefusalCode, message: failure.message, details: linkDetails(failure.details) },
+        }
       }
       // Too short or too long to be one of ours: the same advice as a link we do not recognise.
-      if (failure.status === 422) return { opened: false, refusal: { code: 'link_invalid', message: failure.message, details: { newerVersion: false, renewable: false } } }
+      if (failure.status === 422)
+        return {
+          opened: false,
+          refusal: { code: 'link_invalid', message: failure.message, details: { newerVersion: false, renewable: false } },
+        }
       error.value = failure
       return { opened: false, refusal: null }
     } finally {

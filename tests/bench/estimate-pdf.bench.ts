@@ -30,21 +30,51 @@ export function benchSnapshot(itemCount: number): EstimateSnapshot {
     },
     customer: { id: '00000000-0000-4000-8000-000000000002', name: 'Alex Demo-Customer', email: 'alex@example.com' },
     vehicle: { registration: 'AB12 CDE', make: 'Land Rover', model: 'Defender 110', year: 2012, vin: 'SALLDHMF7CA000001' },
-    message: 'Thanks for bringing the vehicle in. We found a few things on the ramp; the urgent ones are first. Call us with any questions before you decide.',
+    message:
+      'Thanks for bringing the vehicle in. We found a few things on the ramp; the urgent ones are first. Call us with any questions before you decide.',
     items: Array.from({ length: itemCount }, (_, i) => ({
       id: `item-${i + 1}`,
       number: i + 1,
       title: `Replace worn drivetrain part, finding ${i + 1}`,
       severity: severities[i % severities.length]!,
-      customerNote: i % 2 === 0 ? 'The seal is weeping onto the brake disc and the lubricant is low; left as it is, water and dirt get in and the bearing wears quickly.' : '',
+      customerNote:
+        i % 2 === 0
+          ? 'The seal is weeping onto the brake disc and the lubricant is low; left as it is, water and dirt get in and the bearing wears quickly.'
+          : '',
       explanation: null,
       measurement: i % 3 === 0 ? `Play ${(i % 9) + 1} mm at the flange` : null,
       photoIds: [],
       requires: [],
       lines: [
-        { kind: 'labour' as const, id: `a${i}`, description: 'Strip hub and replace the joint', hours: '2.6', rate: 8950, taxRate: '20', accessSteps: i % 4 === 0 ? ['hub-off'] : [], operationCode: null, category: null },
-        { kind: 'part' as const, id: `b${i}`, description: `Joint kit ${1000 + i}`, quantity: '1', unitPrice: 11999 + i * 13, taxRate: '20', partNumber: null },
-        { kind: 'part' as const, id: `c${i}`, description: 'Gear oil, litres', quantity: '2.5', unitPrice: 1199, taxRate: '20', partNumber: null },
+        {
+          kind: 'labour' as const,
+          id: `a${i}`,
+          description: 'Strip hub and replace the joint',
+          hours: '2.6',
+          rate: 8950,
+          taxRate: '20',
+          accessSteps: i % 4 === 0 ? ['hub-off'] : [],
+          operationCode: null,
+          category: null,
+        },
+        {
+          kind: 'part' as const,
+          id: `b${i}`,
+          description: `Joint kit ${1000 + i}`,
+          quantity: '1',
+          unitPrice: 11999 + i * 13,
+          taxRate: '20',
+          partNumber: null,
+        },
+        {
+          kind: 'part' as const,
+          id: `c${i}`,
+          description: 'Gear oil, litres',
+          quantity: '2.5',
+          unitPrice: 1199,
+          taxRate: '20',
+          partNumber: null,
+        },
         { kind: 'fee' as const, id: `d${i}`, description: 'Waste disposal', amount: 350, taxRate: '0' },
       ],
     })),
@@ -67,7 +97,8 @@ async function cpuMsPerRun(fn: () => Promise<unknown>, runs: number): Promise<nu
 export default async function () {
   const snapshot = benchSnapshot(25)
   const result = calculateEstimate(snapshotToEngineInput(snapshot))
-  const render = () => renderEstimatePdf({ snapshot, result, sentAt: '2026-12-02T10:15:00Z', timezone: 'Europe/London', hash: 'ab'.repeat(32) })
+  const render = () =>
+    renderEstimatePdf({ snapshot, result, sentAt: '2026-12-02T10:15:00Z', timezone: 'Europe/London', hash: 'ab'.repeat(32) })
   const firstStart = process.hrtime.bigint()
   const bytes = await render()
   const first = Number(process.hrtime.bigint() - firstStart) / 1e6

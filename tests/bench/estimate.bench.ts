@@ -3,7 +3,7 @@
  * Target: a 1,000-line estimate with 50 shared access steps in under 5 ms (median).
  */
 import { calculateEstimate } from '../../shared/estimate'
-import type { EstimateInputDraft } from '../../shared/schemas/estimate'
+import type { EstimateInputDraft } from '../../shared/estimate/contract'
 import { formatMs, measure } from './stats'
 
 /** A deterministic, invented estimate: `itemCount` items of five lines each, half of them labour sharing access steps. */
@@ -25,8 +25,22 @@ export function benchEstimate(itemCount: number, stepCount: number): EstimateInp
       title: `Item ${i}`,
       decision: decisions[i % decisions.length]!,
       lines: [
-        { kind: 'labour', description: 'Main job', hours: '4.5', rate: 8500, taxRate: '20', accessSteps: [`step-${(i * 7) % stepCount}`, `step-${(i * 3 + 4) % stepCount}`] },
-        { kind: 'labour', description: 'Second job', hours: '3.25', rate: 9250, taxRate: '20', accessSteps: [`step-${(i * 11 + 9) % stepCount}`] },
+        {
+          kind: 'labour',
+          description: 'Main job',
+          hours: '4.5',
+          rate: 8500,
+          taxRate: '20',
+          accessSteps: [`step-${(i * 7) % stepCount}`, `step-${(i * 3 + 4) % stepCount}`],
+        },
+        {
+          kind: 'labour',
+          description: 'Second job',
+          hours: '3.25',
+          rate: 9250,
+          taxRate: '20',
+          accessSteps: [`step-${(i * 11 + 9) % stepCount}`],
+        },
         { kind: 'part', description: 'Kit', quantity: '1', unitPrice: 14999, taxRate: '20' },
         { kind: 'part', description: 'Oil', quantity: '2.5', unitPrice: 1199, taxRate: '20' },
         { kind: 'fee', description: 'Disposal', amount: 350, taxRate: '0' },
@@ -55,6 +69,10 @@ export default async function () {
   const smallTimes = await measure(() => calculateEstimate(small), 2000, 200)
   const largeCpu = cpuMsPerRun(() => calculateEstimate(large), 200)
   const smallCpu = cpuMsPerRun(() => calculateEstimate(small), 2000)
-  console.log(`1,000 lines, 50 access steps: median ${formatMs(largeTimes.median)}, p95 ${formatMs(largeTimes.p95)}, min ${formatMs(largeTimes.min)}; mean CPU ${formatMs(largeCpu)} (target: median < 5 ms)`)
-  console.log(`20 lines, 50 access steps:    median ${formatMs(smallTimes.median)}, p95 ${formatMs(smallTimes.p95)}, min ${formatMs(smallTimes.min)}; mean CPU ${formatMs(smallCpu)}`)
+  console.log(
+    `1,000 lines, 50 access steps: median ${formatMs(largeTimes.median)}, p95 ${formatMs(largeTimes.p95)}, min ${formatMs(largeTimes.min)}; mean CPU ${formatMs(largeCpu)} (target: median < 5 ms)`,
+  )
+  console.log(
+    `20 lines, 50 access steps:    median ${formatMs(smallTimes.median)}, p95 ${formatMs(smallTimes.p95)}, min ${formatMs(smallTimes.min)}; mean CPU ${formatMs(smallCpu)}`,
+  )
 }

@@ -48,7 +48,33 @@ const components: [string, string, string[]][] = [
   ['stub axle', 'hubs_bearings', []],
 ]
 const actions = ['Replace', 'Overhaul', 'Inspect', 'Adjust', 'Reseal', 'Remove and refit', 'Diagnose noise from', 'Clean and grease']
-const qualifiers = ['', 'heavy duty', 'long wheelbase', 'short wheelbase', 'twin cab', 'early type', 'late type', 'with ABS ring', 'export model', 'with winch', 'raised suspension', 'pre-facelift', 'facelift', 'ex-fleet', 'lifted', 'stock height', 'with locker', 'without locker', 'diesel', 'petrol', 'auto box', 'manual box', 'crew cab', 'utility body', 'hard top']
+const qualifiers = [
+  '',
+  'heavy duty',
+  'long wheelbase',
+  'short wheelbase',
+  'twin cab',
+  'early type',
+  'late type',
+  'with ABS ring',
+  'export model',
+  'with winch',
+  'raised suspension',
+  'pre-facelift',
+  'facelift',
+  'ex-fleet',
+  'lifted',
+  'stock height',
+  'with locker',
+  'without locker',
+  'diesel',
+  'petrol',
+  'auto box',
+  'manual box',
+  'crew cab',
+  'utility body',
+  'hard top',
+]
 const sides = ['left', 'right', 'both', 'none'] as const
 const groups = ['coil-sprung-live-axle', 'leaf-sprung-pickup', 'independent-front', '']
 
@@ -64,14 +90,60 @@ function operationsCsv(): string {
     const qualifier = qualifiers[Math.floor(i / (components.length * actions.length)) % qualifiers.length] as string
     const name = `${action} ${component}${qualifier ? `, ${qualifier}` : ''}`
     const hours = `${1 + (i % 7)}.${i % 10}`
-    lines.push([`BX-${String(i).padStart(4, '0')}`, name, synonyms.join('|'), system, groups[i % groups.length] ?? '', sides[i % sides.length] ?? 'none', hours, 'standard', '', ''].map(csvCell).join(','))
+    lines.push(
+      [
+        `BX-${String(i).padStart(4, '0')}`,
+        name,
+        synonyms.join('|'),
+        system,
+        groups[i % groups.length] ?? '',
+        sides[i % sides.length] ?? 'none',
+        hours,
+        'standard',
+        '',
+        '',
+      ]
+        .map(csvCell)
+        .join(','),
+    )
   }
   return `${lines.join('\n')}\n`
 }
 
 /** A small deterministic generator, so every run asks the same 200 questions. */
 function* queries(): Generator<string> {
-  const words = ['UJ', 'diff', 'swivle', 'swivel seal', 'hub bearing', 'front diff', 'rear diff', 'cv joint', 'pinion seal', 'transfer box output', 'steering damper', 'halfshaft', 'bearng', 'prop shaft', 'track rod', 'TRE', 'kingpin', 'diff lock', 'overhaul', 'sliding', 'centre bearing', 'drag link', 'wheel bearing heavy duty', 'replace swivel', 'stub axle', 'panhard', 'free wheeling hub', 'dampr', 'transfr box', 'unversal joint']
+  const words = [
+    'UJ',
+    'diff',
+    'swivle',
+    'swivel seal',
+    'hub bearing',
+    'front diff',
+    'rear diff',
+    'cv joint',
+    'pinion seal',
+    'transfer box output',
+    'steering damper',
+    'halfshaft',
+    'bearng',
+    'prop shaft',
+    'track rod',
+    'TRE',
+    'kingpin',
+    'diff lock',
+    'overhaul',
+    'sliding',
+    'centre bearing',
+    'drag link',
+    'wheel bearing heavy duty',
+    'replace swivel',
+    'stub axle',
+    'panhard',
+    'free wheeling hub',
+    'dampr',
+    'transfr box',
+    'unversal joint',
+  ]
   let seed = 7
   const next = () => (seed = (seed * 1103515245 + 12345) % 2 ** 31)
   for (;;) {
@@ -105,9 +177,17 @@ export default async function () {
     await db.insert(staffUsers).values({ workshopId: shop.id, name: 'Bench Owner', email, role: 'owner' })
 
     const since = Date.now()
-    await fetch(`${base}/api/auth/staff/link`, { method: 'POST', headers: { Origin: origin, 'Content-Type': 'application/json' }, body: JSON.stringify({ email }) })
+    await fetch(`${base}/api/auth/staff/link`, {
+      method: 'POST',
+      headers: { Origin: origin, 'Content-Type': 'application/json' },
+      body: JSON.stringify({ email }),
+    })
     const token = linkIn(await waitForMail(email, { since })).searchParams.get('token') ?? ''
-    const verified = await fetch(`${base}/api/auth/verify`, { method: 'POST', headers: { Origin: origin, 'Content-Type': 'application/json' }, body: JSON.stringify({ token }) })
+    const verified = await fetch(`${base}/api/auth/verify`, {
+      method: 'POST',
+      headers: { Origin: origin, 'Content-Type': 'application/json' },
+      body: JSON.stringify({ token }),
+    })
     const cookie = (verified.headers.getSetCookie()[0] ?? '').split(';')[0] ?? ''
     if (!verified.ok || !cookie) throw new Error(`sign-in failed: ${verified.status}`)
 
@@ -120,7 +200,11 @@ export default async function () {
     const file = operationsCsv()
     const upload = async (path: string) => {
       const start = process.hrtime.bigint()
-      const res = await fetch(`${base}${path}`, { method: 'POST', headers: { Origin: origin, Cookie: cookie, 'Content-Type': 'text/csv' }, body: file })
+      const res = await fetch(`${base}${path}`, {
+        method: 'POST',
+        headers: { Origin: origin, Cookie: cookie, 'Content-Type': 'text/csv' },
+        body: file,
+      })
       const body = (await res.json()) as { summary?: { added: number } }
       if (!res.ok) throw new Error(`${path} answered ${res.status}`)
       return { ms: Number(process.hrtime.bigint() - start) / 1e6, added: body.summary?.added ?? 0 }
@@ -139,7 +223,9 @@ export default async function () {
       const body = (await res.json()) as { items: unknown[] }
       if (body.items.length > 0) answered++
     }, QUERIES)
-    console.log(`lookup over ${OPERATIONS.toLocaleString('en-GB')} operations, ${QUERIES} queries: median ${formatMs(times.median)}, p95 ${formatMs(times.p95)}, max ${formatMs(times.max)} (target p95 < 50 ms)`)
+    console.log(
+      `lookup over ${OPERATIONS.toLocaleString('en-GB')} operations, ${QUERIES} queries: median ${formatMs(times.median)}, p95 ${formatMs(times.p95)}, max ${formatMs(times.max)} (target p95 < 50 ms)`,
+    )
     console.log(`queries with at least one result: ${answered} of ${QUERIES + 20} (including warm-up)`)
     // The floor under every lookup on this machine: session, sign-in check and one small query.
     const floor = await measure(() => fetch(`${base}/api/pricing`, { headers: { Cookie: cookie } }).then((r) => r.json()), QUERIES)

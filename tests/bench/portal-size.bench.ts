@@ -28,7 +28,11 @@ const root = path.resolve(import.meta.dirname, '../..')
 const layout = 'src/layouts/PortalLayout.vue'
 const portalRoutes: { name: string; path: string; sources: string[] }[] = [
   { name: 'sign-in', path: '/portal/sign-in', sources: [layout, 'src/pages/portal/PortalSignInPage.vue'] },
-  { name: 'open', path: '/portal/open → estimate', sources: [layout, 'src/pages/portal/PortalOpenPage.vue', 'src/pages/portal/PortalEstimatePage.vue'] },
+  {
+    name: 'open',
+    path: '/portal/open → estimate',
+    sources: [layout, 'src/pages/portal/PortalOpenPage.vue', 'src/pages/portal/PortalEstimatePage.vue'],
+  },
   { name: 'estimate', path: '/portal/estimates/:id', sources: [layout, 'src/pages/portal/PortalEstimatePage.vue'] },
   { name: 'confirm', path: '/portal/estimates/:id/confirm', sources: [layout, 'src/pages/portal/PortalConfirmPage.vue'] },
   { name: 'paid', path: '/portal/estimates/:id/paid', sources: [layout, 'src/pages/portal/PortalPaidPage.vue'] },
@@ -105,7 +109,9 @@ export default async function () {
     const cache = new Map<string, number>()
     const entryBytes = gzipBytes(outDir, entryFiles, cache)
 
-    console.log(`client built in ${((Date.now() - started) / 1000).toFixed(1)} s; gzip level ${GZIP_LEVEL}, each file on its own; 1 kB = 1000 B`)
+    console.log(
+      `client built in ${((Date.now() - started) / 1000).toFixed(1)} s; gzip level ${GZIP_LEVEL}, each file on its own; 1 kB = 1000 B`,
+    )
     console.log(`entry (${entryKey}, ${entryFiles.size} files): ${kB(entryBytes)} (${KiB(entryBytes)})`)
 
     let worst = { name: '', bytes: 0 }
@@ -121,7 +127,9 @@ export default async function () {
       )
     }
     const verdict = worst.bytes < TARGET_BYTES ? 'within target' : 'OVER TARGET'
-    console.log(`max: ${kB(worst.bytes)} (${KiB(worst.bytes)}) on ${worst.name}; target < ${kB(TARGET_BYTES)}: ${verdict}, margin ${kB(TARGET_BYTES - worst.bytes)}`)
+    console.log(
+      `max: ${kB(worst.bytes)} (${KiB(worst.bytes)}) on ${worst.name}; target < ${kB(TARGET_BYTES)}: ${verdict}, margin ${kB(TARGET_BYTES - worst.bytes)}`,
+    )
   } finally {
     fs.rmSync(built.outDir, { recursive: true, force: true })
   }

@@ -24,7 +24,12 @@ describe('payments fake API', () => {
     const res = await fetch(`${fakeUrl()}/v1/events/evt_1`, { headers: { Authorization: 'Bearer pk_test_publishable' } })
     expect(res.status).toBe(401)
     // stripe-node maps 401 to StripeAuthenticationError (Errors, https://docs.stripe.com/api/errors/handling).
-    const sdk = new Stripe('sk_test_', { apiVersion: STRIPE_API_VERSION, host: new URL(fakeUrl()).hostname, port: new URL(fakeUrl()).port, protocol: 'http' })
+    const sdk = new Stripe('sk_test_', {
+      apiVersion: STRIPE_API_VERSION,
+      host: new URL(fakeUrl()).hostname,
+      port: new URL(fakeUrl()).port,
+      protocol: 'http',
+    })
     await expect(sdk.events.retrieve('evt_1')).rejects.toBeInstanceOf(Stripe.errors.StripeAuthenticationError)
   })
 
@@ -67,7 +72,9 @@ describe('payments fake API', () => {
     const in45 = Math.floor(Date.now() / 1000) + 45 * 60
     expect((await stripe.checkout.sessions.create(depositParams({ expires_at: in45 }))).expires_at).toBe(in45)
     // "It can be anywhere from 30 minutes to 24 hours after Checkout Session creation."
-    await expect(stripe.checkout.sessions.create(depositParams({ expires_at: Math.floor(Date.now() / 1000) + 10 * 60 }))).rejects.toMatchObject({
+    await expect(
+      stripe.checkout.sessions.create(depositParams({ expires_at: Math.floor(Date.now() / 1000) + 10 * 60 })),
+    ).rejects.toMatchObject({
       type: 'StripeInvalidRequestError',
       statusCode: 400,
       param: 'expires_at',
@@ -84,13 +91,21 @@ describe('payments fake API', () => {
     })
     const noQuantity = depositParams()
     delete noQuantity.line_items?.[0]?.quantity
-    await expect(stripe.checkout.sessions.create(noQuantity)).rejects.toMatchObject({ code: 'parameter_missing', param: 'line_items[0][quantity]' })
-    const noName = depositParams({ line_items: [{ quantity: 1, price_data: { currency: 'gbp', unit_amount: 500, product_data: { name: '' } } }] })
+    await expect(stripe.checkout.sessions.create(noQuantity)).rejects.toMatchObject({
+      code: 'parameter_missing',
+      param: 'line_items[0][quantity]',
+    })
+    const noName = depositParams({
+      line_items: [{ quantity: 1, price_data: { currency: 'gbp', unit_amount: 500, product_data: { name: '' } } }],
+    })
     await expect(stripe.checkout.sessions.create(noName)).rejects.toMatchObject({
       code: 'parameter_invalid_empty',
       param: 'line_items[0][price_data][product_data][name]',
     })
-    await expect(stripe.checkout.sessions.create({ ...depositParams(), success_url: 'not a url' })).rejects.toMatchObject({ code: 'url_invalid', param: 'success_url' })
+    await expect(stripe.checkout.sessions.create({ ...depositParams(), success_url: 'not a url' })).rejects.toMatchObject({
+      code: 'url_invalid',
+      param: 'success_url',
+    })
     await expect(stripe.rawRequest('POST', '/v1/checkout/sessions', { ...depositParams(), colour: 'copper' })).rejects.toMatchObject({
       code: 'parameter_unknown',
       param: 'colour',
@@ -100,7 +115,10 @@ describe('payments fake API', () => {
   it("refuses a total under the currency's minimum charge", async () => {
     // Minimum charge amounts (https://docs.stripe.com/currencies#minimum-and-maximum-charge-amounts): GBP 0.30.
     const stripe = stripeFor(freshKey())
-    const params = (amount: number) => depositParams({ line_items: [{ quantity: 1, price_data: { currency: 'gbp', unit_amount: amount, product_data: { name: 'Deposit' } } }] })
+    const params = (amount: number) =>
+      depositParams({
+        line_items: [{ quantity: 1, price_data: { currency: 'gbp', unit_amount: amount, product_data: { name: 'Deposit' } } }],
+      })
     await expect(stripe.checkout.sessions.create(params(29))).rejects.toMatchObject({ statusCode: 400, code: 'amount_too_small' })
     expect((await stripe.checkout.sessions.create(params(30))).amount_total).toBe(30)
   })
@@ -133,7 +151,9 @@ describe('payments fake API', () => {
   it('refuses a reused idempotency key with other parameters, or on another endpoint, as an idempotency error', async () => {
     const stripe = stripeFor(freshKey())
     await stripe.checkout.sessions.create(depositParams(), { idempotencyKey: 'deposit-e1-v3' })
-    const other = stripe.checkout.sessions.create(depositParams({ client_reference_id: 'estimate-e1-v4' }), { idempotencyKey: 'deposit-e1-v3' })
+    const other = stripe.checkout.sessions.create(depositParams({ client_reference_id: 'estimate-e1-v4' }), {
+      idempotencyKey: 'deposit-e1-v3',
+    })
     // "errors if they're not the same" — type idempotency_error, which stripe-node raises as StripeIdempotencyError.
     await expect(other).rejects.toBeInstanceOf(Stripe.errors.StripeIdempotencyError)
     await expect(stripe.refunds.create({ payment_intent: 'pi_x' }, { idempotencyKey: 'deposit-e1-v3' })).rejects.toBeInstanceOf(
@@ -144,7 +164,9 @@ describe('payments fake API', () => {
   it('does not keep the answer to a request that failed validation under its idempotency key', async () => {
     // "If incoming parameters fail validation ... no idempotent result is saved" (Idempotent requests).
     const stripe = stripeFor(freshKey())
-    await expect(stripe.checkout.sessions.create({ ...depositParams(), success_url: 'nope' }, { idempotencyKey: 'k-1' })).rejects.toMatchObject({
+    await expect(
+      stripe.checkout.sessions.create({ ...depositParams(), success_url: 'nope' }, { idempotencyKey: 'k-1' }),
+    ).rejects.toMatchObject({
       statusCode: 400,
     })
     const fixed = await stripe.checkout.sessions.create(depositParams(), { idempotencyKey: 'k-1' })

@@ -63,7 +63,9 @@ describe('payments fake payment page', () => {
   it('formats a zero-decimal currency without minor digits', async () => {
     // JPY is zero-decimal: unit_amount 5000 is ¥5,000 (Supported currencies, https://docs.stripe.com/currencies#zero-decimal).
     const session = await stripe.checkout.sessions.create(
-      depositParams({ line_items: [{ quantity: 1, price_data: { currency: 'jpy', unit_amount: 5000, product_data: { name: 'Deposit' } } }] }),
+      depositParams({
+        line_items: [{ quantity: 1, price_data: { currency: 'jpy', unit_amount: 5000, product_data: { name: 'Deposit' } } }],
+      }),
     )
     const html = await (await fetch(sessionUrlOf(session))).text()
     expect(html).toContain(new Intl.NumberFormat('en-GB', { style: 'currency', currency: 'JPY' }).format(5000))
@@ -81,17 +83,30 @@ describe('payments fake payment page', () => {
     expect(paid.customer_details?.email).toBe('keeper@example.com')
     const intent = paid.payment_intent
     if (typeof intent !== 'object' || intent === null) throw new Error('payment_intent was not expanded')
-    expect(intent).toMatchObject({ status: 'succeeded', amount: 12345, amount_received: 12345, currency: 'gbp', metadata: { estimateId: 'e1', version: '2' } })
+    expect(intent).toMatchObject({
+      status: 'succeeded',
+      amount: 12345,
+      amount_received: 12345,
+      currency: 'gbp',
+      metadata: { estimateId: 'e1', version: '2' },
+    })
     const charge = intent.latest_charge
     if (typeof charge !== 'object' || charge === null) throw new Error('latest_charge was not expanded')
     expect(charge).toMatchObject({ status: 'succeeded', paid: true, amount: 12345, payment_intent: intent.id })
     expect(charge.payment_method_details?.card).toMatchObject({ brand: 'visa', last4: '4242' })
     expect((await stripe.paymentIntents.retrieve(intent.id)).status).toBe('succeeded')
 
-    await vi.waitFor(() => expect(verifiedTypes()).toEqual(expect.arrayContaining(['payment_intent.succeeded', 'checkout.session.completed'])))
+    await vi.waitFor(() =>
+      expect(verifiedTypes()).toEqual(expect.arrayContaining(['payment_intent.succeeded', 'checkout.session.completed'])),
+    )
     const completed = receiver.events().find((e) => e.type === 'checkout.session.completed')
     if (completed?.type !== 'checkout.session.completed') throw new Error('no checkout.session.completed')
-    expect(completed.data.object).toMatchObject({ id: session.id, payment_status: 'paid', client_reference_id: 'estimate-e1-v2', payment_intent: intent.id })
+    expect(completed.data.object).toMatchObject({
+      id: session.id,
+      payment_status: 'paid',
+      client_reference_id: 'estimate-e1-v2',
+      payment_intent: intent.id,
+    })
 
     // A paid session's page says so and takes no second payment.
     const again = await submitCard(sessionUrlOf(session), { number: '4242424242424242' })
@@ -149,7 +164,9 @@ describe('payments fake payment page', () => {
     const state = await fakeState(key)
     expect(state.payment_intents[0]?.status).toBe('succeeded')
     expect(state.charges[0]?.payment_method_details?.card?.three_d_secure?.result).toBe('authenticated')
-    await vi.waitFor(() => expect(verifiedTypes()).toEqual(expect.arrayContaining(['payment_intent.succeeded', 'checkout.session.completed'])))
+    await vi.waitFor(() =>
+      expect(verifiedTypes()).toEqual(expect.arrayContaining(['payment_intent.succeeded', 'checkout.session.completed'])),
+    )
   })
 
   it('leaves the session open and the payment failed when 3D Secure authentication fails', async () => {

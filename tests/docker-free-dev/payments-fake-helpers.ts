@@ -25,10 +25,23 @@ export interface FakeState {
   charges: Stripe.Charge[]
   refunds: Stripe.Refund[]
   events: Stripe.Event[]
-  webhook_deliveries: Array<{ event: string; type: string; attempt: number; status: number | null; succeeded: boolean; redelivery: boolean }>
+  webhook_deliveries: Array<{
+    event: string
+    type: string
+    attempt: number
+    status: number | null
+    succeeded: boolean
+    redelivery: boolean
+  }>
 }
 
-export async function fakeJson<T>(secretKey: string, method: 'GET' | 'POST', path: string, body?: unknown, base = fakeUrl()): Promise<{ status: number; body: T }> {
+export async function fakeJson<T>(
+  secretKey: string,
+  method: 'GET' | 'POST',
+  path: string,
+  body?: unknown,
+  base = fakeUrl(),
+): Promise<{ status: number; body: T }> {
   const res = await fetch(`${base}${path}`, {
     method,
     headers: { Authorization: `Bearer ${secretKey}`, ...(body === undefined ? {} : { 'Content-Type': 'application/json' }) },
@@ -92,7 +105,12 @@ export async function startReceiver(statuses: number[] = []): Promise<Receiver> 
 export const WEBHOOK_SECRET = 'whsec_test_payments_fake'
 
 export async function pointWebhooksAt(secretKey: string, receiver: Receiver, extra: Record<string, unknown> = {}): Promise<void> {
-  const { status } = await fakeJson(secretKey, 'POST', '/_fake/webhook', { url: receiver.url, secret: WEBHOOK_SECRET, backoffMs: 20, ...extra })
+  const { status } = await fakeJson(secretKey, 'POST', '/_fake/webhook', {
+    url: receiver.url,
+    secret: WEBHOOK_SECRET,
+    backoffMs: 20,
+    ...extra,
+  })
   if (status !== 200) throw new Error(`POST /_fake/webhook answered ${status}`)
 }
 
@@ -144,7 +162,11 @@ export async function submitCard(
 export async function answerChallenge(sessionUrl: string, challengePage: string, result: 'complete' | 'fail'): Promise<PageAnswer> {
   const challenge = /name="challenge" value="([^"]+)"/.exec(challengePage)?.[1]
   if (!challenge) throw new Error('no 3D Secure challenge on the page')
-  const res = await fetch(`${sessionUrl}/authenticate`, { method: 'POST', body: new URLSearchParams({ challenge, result }), redirect: 'manual' })
+  const res = await fetch(`${sessionUrl}/authenticate`, {
+    method: 'POST',
+    body: new URLSearchParams({ challenge, result }),
+    redirect: 'manual',
+  })
   return { status: res.status, location: res.headers.get('location'), html: await res.text() }
 }
 

@@ -46,8 +46,19 @@ describe('payments fake refunds', () => {
 
   it('refunds the whole payment when no amount is given and sends charge.refunded and refund.created', async () => {
     const intentId = await paidIntent()
-    const refund = await stripe.refunds.create({ payment_intent: intentId, reason: 'requested_by_customer', metadata: { estimateId: 'e1' } })
-    expect(refund).toMatchObject({ object: 'refund', amount: 12345, currency: 'gbp', status: 'succeeded', payment_intent: intentId, reason: 'requested_by_customer' })
+    const refund = await stripe.refunds.create({
+      payment_intent: intentId,
+      reason: 'requested_by_customer',
+      metadata: { estimateId: 'e1' },
+    })
+    expect(refund).toMatchObject({
+      object: 'refund',
+      amount: 12345,
+      currency: 'gbp',
+      status: 'succeeded',
+      payment_intent: intentId,
+      reason: 'requested_by_customer',
+    })
     expect(refund.id).toMatch(/^re_/)
     const retrieved = await stripe.refunds.retrieve(refund.id, { expand: ['charge'] })
     expect(retrieved.metadata).toEqual({ estimateId: 'e1' })
@@ -79,7 +90,10 @@ describe('payments fake refunds', () => {
     expect((await stripe.refunds.create({ payment_intent: intentId, amount: 2345 })).amount).toBe(2345)
     const state = await fakeState(key)
     expect(state.charges[0]).toMatchObject({ amount_refunded: 12345, refunded: true })
-    await expect(stripe.refunds.create({ payment_intent: intentId, amount: 1 })).rejects.toMatchObject({ statusCode: 400, code: 'charge_already_refunded' })
+    await expect(stripe.refunds.create({ payment_intent: intentId, amount: 1 })).rejects.toMatchObject({
+      statusCode: 400,
+      code: 'charge_already_refunded',
+    })
   })
 
   it('refuses to refund a payment that never succeeded', async () => {
@@ -88,7 +102,10 @@ describe('payments fake refunds', () => {
     const [intent] = (await fakeState(key)).payment_intents
     if (!intent) throw new Error('no PaymentIntent after a declined attempt')
     await expect(stripe.refunds.create({ payment_intent: intent.id })).rejects.toMatchObject({ statusCode: 400, param: 'payment_intent' })
-    await expect(stripe.refunds.create({ payment_intent: 'pi_unknown' })).rejects.toMatchObject({ statusCode: 404, code: 'resource_missing' })
+    await expect(stripe.refunds.create({ payment_intent: 'pi_unknown' })).rejects.toMatchObject({
+      statusCode: 404,
+      code: 'resource_missing',
+    })
     await expect(stripe.refunds.create({})).rejects.toMatchObject({ statusCode: 400 })
   })
 
@@ -98,9 +115,9 @@ describe('payments fake refunds', () => {
     const retry = await stripe.refunds.create({ payment_intent: intentId, amount: 500 }, { idempotencyKey: 'refund-e1-1' })
     expect(retry.id).toBe(first.id)
     expect((await fakeState(key)).refunds).toHaveLength(1)
-    await expect(stripe.refunds.create({ payment_intent: intentId, amount: 600 }, { idempotencyKey: 'refund-e1-1' })).rejects.toBeInstanceOf(
-      Stripe.errors.StripeIdempotencyError,
-    )
+    await expect(
+      stripe.refunds.create({ payment_intent: intentId, amount: 600 }, { idempotencyKey: 'refund-e1-1' }),
+    ).rejects.toBeInstanceOf(Stripe.errors.StripeIdempotencyError)
   })
 
   it('replays a refused refund under the same idempotency key, since the endpoint had begun', async () => {

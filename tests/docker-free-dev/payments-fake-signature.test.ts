@@ -53,7 +53,9 @@ describe('payments fake webhook signatures', () => {
   it('is refused when one byte of the body changed', () => {
     const tampered = delivery.body.replace('"amount_total": 12345', '"amount_total": 12346')
     expect(tampered).not.toBe(delivery.body)
-    expect(() => Stripe.webhooks.constructEvent(tampered, delivery.signature, WEBHOOK_SECRET)).toThrow(Stripe.errors.StripeSignatureVerificationError)
+    expect(() => Stripe.webhooks.constructEvent(tampered, delivery.signature, WEBHOOK_SECRET)).toThrow(
+      Stripe.errors.StripeSignatureVerificationError,
+    )
   })
 
   it('is refused with another secret', () => {

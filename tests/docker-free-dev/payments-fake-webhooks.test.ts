@@ -47,7 +47,8 @@ describe('payments fake webhook delivery', () => {
     await vi.waitFor(() => expect(receiver.received).toHaveLength(3))
     const ids = receiver.events().map((e) => e.id)
     expect(new Set(ids).size).toBe(1)
-    for (const r of receiver.received) expect(Stripe.webhooks.constructEvent(r.body, r.signature, WEBHOOK_SECRET).type).toBe('checkout.session.completed')
+    for (const r of receiver.received)
+      expect(Stripe.webhooks.constructEvent(r.body, r.signature, WEBHOOK_SECRET).type).toBe('checkout.session.completed')
     await vi.waitFor(async () => {
       const deliveries = (await fakeState(key)).webhook_deliveries
       expect(deliveries.map((d) => [d.attempt, d.status, d.succeeded])).toEqual([
@@ -107,7 +108,12 @@ describe('payments fake webhook delivery', () => {
 
   it('uses the endpoint given when the fake is created for every key, and listens on 127.0.0.1 only', async () => {
     const receiver = await receiverWith([500])
-    const fake = createPaymentsFake({ webhookUrl: receiver.url, webhookSecret: WEBHOOK_SECRET, webhookBackoffMs: 10, merchantName: 'Ridgeway Axles' })
+    const fake = createPaymentsFake({
+      webhookUrl: receiver.url,
+      webhookSecret: WEBHOOK_SECRET,
+      webhookBackoffMs: 10,
+      merchantName: 'Ridgeway Axles',
+    })
     const running: RunningPaymentsFake = await fake.listen(0)
     cleanup.push(() => running.close())
     expect(running.url).toMatch(/^http:\/\/127\.0\.0\.1:\d+$/)
@@ -133,7 +139,10 @@ describe('payments fake webhook delivery', () => {
   })
 
   it('refuses a webhook endpoint that is not on this machine', async () => {
-    const { status } = await fakeJson(freshKey(), 'POST', '/_fake/webhook', { url: 'https://hooks.example.com/stripe', secret: WEBHOOK_SECRET })
+    const { status } = await fakeJson(freshKey(), 'POST', '/_fake/webhook', {
+      url: 'https://hooks.example.com/stripe',
+      secret: WEBHOOK_SECRET,
+    })
     expect(status).toBe(400)
   })
 })

@@ -2,7 +2,7 @@ import type { Locator, Page } from 'playwright-core'
 import { describe, expect, inject, it } from 'vitest'
 import { calculateEstimate } from '../../shared/estimate'
 import { formatMoney } from '../../shared/money'
-import type { Decision } from '../../shared/schemas/estimate'
+import type { Decision } from '../../shared/estimate/contract'
 import { type EstimateDetail, draftToEngineInput, estimateStatusLabels, snapshotToEngineInput } from '../../shared/schemas/estimates'
 import type { FindingInput } from '../../shared/schemas/inspections'
 import type { PortalDeposit, PortalEstimate } from '../../shared/schemas/portal'
@@ -14,7 +14,11 @@ import { linkFrom, mailIdsTo, readLatestMail } from './support/mail'
 const TECHNICIAN = 'tech@brackenfold4x4.test'
 const ADVISOR = 'advisor@brackenfold4x4.test'
 const PAYING = { name: 'Tomasz Wren', email: 'tomasz.wren@example.test', concern: 'Vibration through the floor above 50 mph.' }
-const DECLINED = { name: 'Harriet Oduya', email: 'harriet.oduya@example.test', concern: 'Oil on the inside of the front wheels after green-laning.' }
+const DECLINED = {
+  name: 'Harriet Oduya',
+  email: 'harriet.oduya@example.test',
+  concern: 'Oil on the inside of the front wheels after green-laning.',
+}
 
 /** Test card numbers the payments fake takes from Stripe's testing page (docker-free-dev/payments-fake/cards.ts). */
 const CARD_SUCCEEDS = '4242 4242 4242 4242'
@@ -107,12 +111,22 @@ const itemTitle = (f: NewFinding) => (f.title.toLowerCase().includes(f.position)
 /** The "Total" of the advisor's totals panel, every item as if approved. */
 async function advisorTotal(page: Page): Promise<string> {
   const table = page.getByRole('table', { name: 'Totals, every item as if approved' })
-  return ((await table.getByRole('row', { name: /^Total\s/ }).getByRole('cell').textContent()) ?? '').trim()
+  return (
+    (await table
+      .getByRole('row', { name: /^Total\s/ })
+      .getByRole('cell')
+      .textContent()) ?? ''
+  ).trim()
 }
 
 async function advisorDeposit(page: Page): Promise<string> {
   const table = page.getByRole('table', { name: 'Totals, every item as if approved' })
-  return ((await table.getByRole('row', { name: /^Deposit \(/ }).getByRole('cell').textContent()) ?? '').trim()
+  return (
+    (await table
+      .getByRole('row', { name: /^Deposit \(/ })
+      .getByRole('cell')
+      .textContent()) ?? ''
+  ).trim()
 }
 
 async function allSaved(page: Page): Promise<void> {
@@ -238,7 +252,9 @@ describe('from findings to a paid deposit', () => {
     await allSaved(page)
     await expect.poll(() => advisorTotal(page)).not.toBe(totalBefore)
     let saved = await api<EstimateDetail>(page, 'GET', `/api/estimates/${story.estimateId}`)
-    expect(await advisorTotal(page)).toBe(formatMoney(calculateEstimate(draftToEngineInput(saved.draft, saved.currency)).proposed.gross, saved.currency))
+    expect(await advisorTotal(page)).toBe(
+      formatMoney(calculateEstimate(draftToEngineInput(saved.draft, saved.currency)).proposed.gross, saved.currency),
+    )
 
     // A quarter of the approved total as the deposit: the workshop's default asks for none.
     const settings = page.getByRole('region', { name: 'Settings for this estimate' })
@@ -291,7 +307,8 @@ describe('from findings to a paid deposit', () => {
     await visible(page.getByRole('heading', { name: /^Your estimate for WN08 PLB$/, level: 1 }))
     // The key in the e-mail's link is not left in the address bar.
     expect(page.url()).not.toContain('token=')
-    for (const f of [UJ, PINION, BREATHER]) await visible(page.getByRole('heading', { name: new RegExp(`^\\d+\\. ${escaped(itemTitle(f))}$`), level: 3 }))
+    for (const f of [UJ, PINION, BREATHER])
+      await visible(page.getByRole('heading', { name: new RegExp(`^\\d+\\. ${escaped(itemTitle(f))}$`), level: 3 }))
 
     const shown = await api<PortalEstimate>(page, 'GET', `/api/portal/estimates/${estimateId}`)
     const { snapshot } = shown
@@ -325,7 +342,9 @@ describe('from findings to a paid deposit', () => {
     expect(decided.result.approved.gross).toBe(expected.gross)
     expect(decided.result.approved.deposit).toBe(expected.deposit)
     story.deposit = money(expected.deposit)
-    await screenshot(page, 'customer-2-estimate-after', { at: page.getByRole('article', { name: new RegExp(`${escaped(itemTitle(PINION))}$`) }) })
+    await screenshot(page, 'customer-2-estimate-after', {
+      at: page.getByRole('article', { name: new RegExp(`${escaped(itemTitle(PINION))}$`) }),
+    })
     await screenshot(page, 'customer-2b-estimate-after-last-item', {
       at: page.getByRole('article', { name: new RegExp(`${escaped(itemTitle(BREATHER))}$`) }).getByRole('button', { name: /^Approved/ }),
     })
@@ -385,7 +404,10 @@ describe('from findings to a paid deposit', () => {
 
     const deposit = await api<PortalDeposit>(page, 'GET', `/api/portal/estimates/${estimateId}/deposit`)
     expect(deposit).toMatchObject({ status: 'paid', amountMinor: expected.deposit })
-    const receipt = await readLatestMail(PAYING.email, `Deposit received for estimate ${reference}`, { excluding: receiptsBefore, timeoutMs: 30_000 })
+    const receipt = await readLatestMail(PAYING.email, `Deposit received for estimate ${reference}`, {
+      excluding: receiptsBefore,
+      timeoutMs: 30_000,
+    })
     expect(receipt.text).toContain(money(expected.deposit))
   })
 
@@ -398,7 +420,9 @@ describe('from findings to a paid deposit', () => {
     const advisorSawPaidAt = await story.advisorSawPaid
     if (advisorSawPaidAt instanceof Error) throw advisorSawPaidAt
     const lag = advisorSawPaidAt - story.customerSawPaidAt
-    process.stdout.write(`[e2e] the advisor's page showed the deposit paid ${Math.abs(lag)} ms ${lag < 0 ? 'before' : 'after'} the customer's page\n`)
+    process.stdout.write(
+      `[e2e] the advisor's page showed the deposit paid ${Math.abs(lag)} ms ${lag < 0 ? 'before' : 'after'} the customer's page\n`,
+    )
     expect(lag).toBeLessThan(5_000)
     await visible(page.getByText(estimateStatusLabels.deposit_paid, { exact: true }))
     await visible(page.getByRole('button', { name: 'Refund deposit' }))
@@ -431,7 +455,11 @@ describe('a declined card', () => {
       title: 'Swivel housing oil low',
       severity: 'watch',
       position: 'right',
-      explanation: { what: 'The right swivel housing is low on oil.', why: 'Low oil wears the bearings.', ifLeft: 'The bearings wear sooner.' },
+      explanation: {
+        what: 'The right swivel housing is low on oil.',
+        why: 'Low oil wears the bearings.',
+        ifLeft: 'The bearings wear sooner.',
+      },
       suggestedRepair: { labour: ['FA-111'], parts: [] },
     }
     const jobId = await recordFindings(technician, DECLINED.concern, [seal, grease])

@@ -22,7 +22,9 @@ describe('the journey helpers', () => {
 
   it('axe passes a plain page with nothing wrong', async () => {
     const page = await browser.current.newDesktopPage()
-    await page.setContent('<!doctype html><html lang="en"><head><title>Good page</title></head><body><main><h1>Good page</h1><p>Nothing to see.</p></main></body></html>')
+    await page.setContent(
+      '<!doctype html><html lang="en"><head><title>Good page</title></head><body><main><h1>Good page</h1><p>Nothing to see.</p></main></body></html>',
+    )
     const report = await runAxe(page, 'helper check, good page')
     expect(report.blocking).toEqual([])
   })

@@ -70,7 +70,14 @@ const validBodies: Record<string, (own: Fixture) => object> = {
   'put /customers/:id': () => ({ name: 'Renamed', email: 'renamed@fixture.test' }),
   'put /vehicles/:id': (own) => ({ customerId: own.customer.id, registration: 'MX1', make: 'Make', model: 'Model' }),
   'put /jobs/:id': (own) => ({ vehicleId: own.vehicle.id, concern: 'Changed concern' }),
-  'put /labour-operations/:id': () => ({ code: 'MATRIX-OP', name: 'Matrix', system: 'steering', side: 'none', bookHours: '1', category: 'standard' }),
+  'put /labour-operations/:id': () => ({
+    code: 'MATRIX-OP',
+    name: 'Matrix',
+    system: 'steering',
+    side: 'none',
+    bookHours: '1',
+    category: 'standard',
+  }),
   'post /labour-operations/:id/clock-times': () => ({ hours: '1' }),
   'put /access-steps/:id': () => ({ code: 'MATRIX-STEP', name: 'Matrix', hours: '0.5' }),
   'put /parts/:id': () => ({ partNumber: 'MATRIX-PART', description: 'Matrix', costMinor: 100 }),
@@ -91,7 +98,10 @@ const validBodies: Record<string, (own: Fixture) => object> = {
   'put /inspections/:id/results': () => ({ checkCode: 'swivel-leak', position: 'left', value: { kind: 'choice', value: 'leak' } }),
   'put /inspections/:id/notes': () => ({ notes: 'Noted' }),
   'post /estimates/:id/questions/:questionId/answer': () => ({ answer: 'Matrix answer' }),
-  'put /estimates/:id/draft': () => ({ revision: 0, draft: { items: [], taxMode: 'exclusive', taxRounding: 'per-line', deposit: { kind: 'none' }, expiresOn: '2027-01-01' } }),
+  'put /estimates/:id/draft': () => ({
+    revision: 0,
+    draft: { items: [], taxMode: 'exclusive', taxRounding: 'per-line', deposit: { kind: 'none' }, expiresOn: '2027-01-01' },
+  }),
   'post /estimates/:id/findings': () => ({ revision: 0, findingIds: ['00000000-0000-4000-8000-000000000000'] }),
   'post /estimates/:id/send': () => ({ revision: 0 }),
 }
@@ -119,9 +129,23 @@ afterAll(() => t.close())
 
 function concretePath(rule: RouteRule): string {
   // Ids point at the home workshop's records; the technician is the target of staff changes.
-  const ids: Record<string, string> = { staff: home.technician.id, customers: home.customer.id, vehicles: home.vehicle.id, jobs: home.job.id, 'labour-operations': homeCatalogue.operation, 'access-steps': homeCatalogue.step, parts: homeCatalogue.part, portal: homeEstimate.estimate.id, estimates: homeEstimate.estimate.id }
+  const ids: Record<string, string> = {
+    staff: home.technician.id,
+    customers: home.customer.id,
+    vehicles: home.vehicle.id,
+    jobs: home.job.id,
+    'labour-operations': homeCatalogue.operation,
+    'access-steps': homeCatalogue.step,
+    parts: homeCatalogue.part,
+    portal: homeEstimate.estimate.id,
+    estimates: homeEstimate.estimate.id,
+  }
   const area = rule.path.split('/')[1] ?? ''
-  return `/api${rule.path}`.replace(':id', ids[area] ?? '00000000-0000-4000-8000-000000000000').replace(':questionId', '00000000-0000-4000-8000-000000000000').replace(':emailId', '00000000-0000-4000-8000-000000000000').replace(':version', '1')
+  return `/api${rule.path}`
+    .replace(':id', ids[area] ?? '00000000-0000-4000-8000-000000000000')
+    .replace(':questionId', '00000000-0000-4000-8000-000000000000')
+    .replace(':emailId', '00000000-0000-4000-8000-000000000000')
+    .replace(':version', '1')
 }
 
 describe('the route table covers every route', () => {
@@ -147,7 +171,10 @@ describe('access matrix', () => {
         // Empty bodies: an allowed write gets past the guard and stops at validation (422), changing nothing.
         // The other workshop's owner sends a valid body, so only the record's absence can stop them.
         const body = caller === 'other-owner' ? (validBodies[`${rule.method} ${rule.path}`]?.(away) ?? {}) : {}
-        const res = rule.method === 'get' ? await (streams.has(rule.path) ? statusThenHangUp(b, path) : b.get(path)) : await b[rule.method](path, body)
+        const res =
+          rule.method === 'get'
+            ? await (streams.has(rule.path) ? statusThenHangUp(b, path) : b.get(path))
+            : await b[rule.method](path, body)
         const want = expected(rule, caller)
         const ok = want === 'allowed' ? ![401, 403].includes(res.status) && res.status < 500 : res.status === want
         if (!ok) failures.push(`${rule.method.toUpperCase()} ${path}: expected ${want}, got ${res.status} ${JSON.stringify(res.body)}`)

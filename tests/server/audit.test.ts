@@ -22,7 +22,9 @@ describe('audit log', () => {
   it('refuses UPDATE, DELETE and TRUNCATE at the database', async () => {
     const f = await makeWorkshop(t.db)
     await t.db.insert(auditEvents).values({ workshopId: f.workshop.id, actorKind: 'system', action: 'settings.changed' })
-    expect(await errorOf(t.db.execute(sql`update audit_events set action = 'x' where workshop_id = ${f.workshop.id}`))).toMatch(/append-only: UPDATE/)
+    expect(await errorOf(t.db.execute(sql`update audit_events set action = 'x' where workshop_id = ${f.workshop.id}`))).toMatch(
+      /append-only: UPDATE/,
+    )
     expect(await errorOf(t.db.execute(sql`delete from audit_events where workshop_id = ${f.workshop.id}`))).toMatch(/append-only: DELETE/)
     expect(await errorOf(t.db.execute(sql`truncate audit_events`))).toMatch(/append-only: TRUNCATE/)
   })
@@ -36,7 +38,12 @@ describe('audit log', () => {
     expect(actions).toEqual(expect.arrayContaining(['sign_in.requested', 'sign_in.succeeded']))
     const filtered = await owner.get(`/api/audit-events?action=sign_in.succeeded&actorId=${f.advisor.id}`).expect(200)
     expect(filtered.body.total).toBe(1)
-    expect(filtered.body.items[0]).toMatchObject({ action: 'sign_in.succeeded', actorId: f.advisor.id, actorName: 'Adam Advisor', ip: expect.stringMatching(/127\.0\.0\.1/) })
+    expect(filtered.body.items[0]).toMatchObject({
+      action: 'sign_in.succeeded',
+      actorId: f.advisor.id,
+      actorName: 'Adam Advisor',
+      ip: expect.stringMatching(/127\.0\.0\.1/),
+    })
   })
 
   it('shows a workshop only its own events', async () => {

@@ -34,7 +34,12 @@ describe('staff sign-in by e-mail link', () => {
   it('builds the link from the configured base URL, never from the Host header', async () => {
     const f = await makeWorkshop(t.db)
     const since = Date.now()
-    await request(t.app).post('/api/auth/staff/link').set('Origin', 'http://127.0.0.1:3000').set('Host', 'evil.example').send({ email: f.owner.email }).expect(202)
+    await request(t.app)
+      .post('/api/auth/staff/link')
+      .set('Origin', 'http://127.0.0.1:3000')
+      .set('Host', 'evil.example')
+      .send({ email: f.owner.email })
+      .expect(202)
     const link = linkIn(await waitForMail(f.owner.email, { since }))
     expect(link.origin).toBe(t.env.PUBLIC_BASE_URL)
     expect(link.pathname).toBe('/sign-in/link')
@@ -71,7 +76,10 @@ describe('staff sign-in by e-mail link', () => {
     const f = await makeWorkshop(t.db)
     const { token } = await linkFor(f.owner.email)
     const hash = createHash('sha256').update(token).digest('hex')
-    await t.db.update(signInTokens).set({ expiresAt: new Date(Date.now() - 1000) }).where(eq(signInTokens.tokenHash, hash))
+    await t.db
+      .update(signInTokens)
+      .set({ expiresAt: new Date(Date.now() - 1000) })
+      .where(eq(signInTokens.tokenHash, hash))
     const res = await browser(t.app).post('/api/auth/verify', { token }).expect(400)
     expect(res.body.error.code).toBe('link_invalid')
   })
@@ -92,7 +100,9 @@ describe('staff sign-in by e-mail link', () => {
     const { token } = await linkFor(f.owner.email)
     const [header, payload, signature] = token.split('.')
     const flipped = `${signature?.slice(0, -2)}${signature?.endsWith('AA') ? 'BB' : 'AA'}`
-    const res = await browser(t.app).post('/api/auth/verify', { token: `${header}.${payload}.${flipped}` }).expect(400)
+    const res = await browser(t.app)
+      .post('/api/auth/verify', { token: `${header}.${payload}.${flipped}` })
+      .expect(400)
     expect(res.body.error.code).toBe('link_invalid')
   })
 
@@ -204,7 +214,10 @@ describe('CSRF protection', () => {
     const f = await makeWorkshop(t.db)
     const b = await signIn(t.app, f.owner.email)
     const { body } = await b.get('/api/auth/csrf').expect(200)
-    await b.agent.post('/api/auth/sign-out').set('X-CSRF-Token', body.token as string).expect(204)
+    await b.agent
+      .post('/api/auth/sign-out')
+      .set('X-CSRF-Token', body.token as string)
+      .expect(204)
   })
 
   it('accepts same-origin browser requests', async () => {
@@ -240,11 +253,15 @@ describe('rate limits on sign-in requests', () => {
     const b = makeTestApp({ RATE_LIMITS: 'true', TRUST_PROXY: 'true' })
     try {
       const ip = `203.0.113.${Math.floor(Math.random() * 250) + 1}`
-      await a.pool.query("delete from rate_limits where key like $1", [`link-ip:${ip}%`])
+      await a.pool.query('delete from rate_limits where key like $1', [`link-ip:${ip}%`])
       const statuses: number[] = []
       for (let i = 0; i < 22; i++) {
         const app = i % 2 === 0 ? a.app : b.app
-        const res = await request(app).post('/api/auth/staff/link').set('Origin', 'http://127.0.0.1:3000').set('X-Forwarded-For', ip).send({ email: `n${i}-${Date.now()}@fixture.test` })
+        const res = await request(app)
+          .post('/api/auth/staff/link')
+          .set('Origin', 'http://127.0.0.1:3000')
+          .set('X-Forwarded-For', ip)
+          .send({ email: `n${i}-${Date.now()}@fixture.test` })
         statuses.push(res.status)
       }
       expect(statuses.filter((s) => s === 202)).toHaveLength(20)

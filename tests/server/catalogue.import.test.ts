@@ -146,7 +146,11 @@ describe('labour operations import', () => {
   })
 
   it('checks the header: unknown and missing columns are row 1', async () => {
-    const res = await sendCsv(owner, '/api/labour-operations/import/dry-run', csv('code,name,hours,system,side,category', 'X,Y,1,steering,none,standard'))
+    const res = await sendCsv(
+      owner,
+      '/api/labour-operations/import/dry-run',
+      csv('code,name,hours,system,side,category', 'X,Y,1,steering,none,standard'),
+    )
     expect(res.body.errors).toEqual([
       { row: 1, column: 'hours', message: expect.stringContaining('Unknown column') },
       { row: 1, column: 'book_hours', message: 'This column is missing from the header row.' },
@@ -155,7 +159,11 @@ describe('labour operations import', () => {
   })
 
   it('reports a broken quote as a file problem, not a crash', async () => {
-    const res = await sendCsv(owner, '/api/labour-operations/import/dry-run', csv(OPS_HEADER, 'OP-Q,"Unclosed,,steering,,none,1,standard,,'))
+    const res = await sendCsv(
+      owner,
+      '/api/labour-operations/import/dry-run',
+      csv(OPS_HEADER, 'OP-Q,"Unclosed,,steering,,none,1,standard,,'),
+    )
     expect(res.status).toBe(200)
     expect(res.body.errors[0]).toMatchObject({ column: null, message: expect.stringContaining('quote') })
   })
@@ -174,8 +182,25 @@ describe('export → import round trip', () => {
       { code: 'HUB', name: 'Hub off, "the long way"', hours: '1.25', includes: ['WHEEL'] },
     ])
     await addOperations(owner, [
-      { code: 'RT-1', name: '=SUM(A1) is not a formula', synonyms: ['+plus', 'comma, inside'], system: 'front_axle', side: 'left', bookHours: '2.5', accessSteps: ['HUB'], notes: 'Line one\nline two' },
-      { code: 'RT-2', name: 'Plain name', system: 'rear_axle', side: 'none', bookHours: '0.05', vehicleGroups: ['a', 'b'], category: 'diagnostic' },
+      {
+        code: 'RT-1',
+        name: '=SUM(A1) is not a formula',
+        synonyms: ['+plus', 'comma, inside'],
+        system: 'front_axle',
+        side: 'left',
+        bookHours: '2.5',
+        accessSteps: ['HUB'],
+        notes: 'Line one\nline two',
+      },
+      {
+        code: 'RT-2',
+        name: 'Plain name',
+        system: 'rear_axle',
+        side: 'none',
+        bookHours: '0.05',
+        vehicleGroups: ['a', 'b'],
+        category: 'diagnostic',
+      },
     ])
 
     const exported = await owner.get('/api/labour-operations/export').expect(200)
@@ -217,7 +242,11 @@ describe('access steps import', () => {
 
   it('accepts includes that point at steps further down the same file', async () => {
     const { owner } = await freshShop('Steps Import Works')
-    const res = await sendCsv(owner, '/api/access-steps/import', csv(HEADER, 'HUB,Hub off,1,WHEEL|CALIPER', 'WHEEL,Wheel off,0.3,', 'CALIPER,Caliper off,0.4,')).expect(200)
+    const res = await sendCsv(
+      owner,
+      '/api/access-steps/import',
+      csv(HEADER, 'HUB,Hub off,1,WHEEL|CALIPER', 'WHEEL,Wheel off,0.3,', 'CALIPER,Caliper off,0.4,'),
+    ).expect(200)
     expect(res.body.summary).toEqual({ added: 3, changed: 0, unchanged: 0 })
     const steps = await owner.get('/api/access-steps').expect(200)
     expect(steps.body.items).toContainEqual(expect.objectContaining({ code: 'HUB', includes: ['CALIPER', 'WHEEL'], totalHours: '1.7' }))
@@ -228,7 +257,9 @@ describe('access steps import', () => {
     await addSteps(owner, [{ code: 'A', name: 'Step A', hours: '1' }])
     const file = csv(HEADER, 'B,Step B,1,C', 'C,Step C,1,A', 'A,Step A,1,B')
     const dry = await sendCsv(owner, '/api/access-steps/import/dry-run', file).expect(200)
-    expect(dry.body.errors).toEqual([{ row: 4, column: 'includes', message: 'Access steps cannot include each other in a loop: A → B → C → A.' }])
+    expect(dry.body.errors).toEqual([
+      { row: 4, column: 'includes', message: 'Access steps cannot include each other in a loop: A → B → C → A.' },
+    ])
     await sendCsv(owner, '/api/access-steps/import', file).expect(422)
     const steps = await owner.get('/api/access-steps').expect(200)
     expect(steps.body.items.map((s: { code: string }) => s.code)).toEqual(['A'])
@@ -240,15 +271,39 @@ describe('parts import', () => {
 
   it('reads money in major units, fills defaults, and prices from the bands', async () => {
     const { shop, owner } = await freshShop('Parts Import Works')
-    await owner.put('/api/pricing', { rates: { standard: null, diagnostic: null, specialist: null }, defaultTaxRate: '20', markupBands: [{ fromCostMinor: 0, markupPercent: '50' }] }).expect(200)
-    const file = csv(HEADER, 'UJ-100,Universal joint,SUP-1,12.50,,,4', 'SEAL-7,Pinion seal,,3,9.99,0,', 'KIT-9,Swivel kit,,120.5,,5,', '+ADAPTER-1,=2+3 adapter,-X,1,,,')
+    await owner
+      .put('/api/pricing', {
+        rates: { standard: null, diagnostic: null, specialist: null },
+        defaultTaxRate: '20',
+        markupBands: [{ fromCostMinor: 0, markupPercent: '50' }],
+      })
+      .expect(200)
+    const file = csv(
+      HEADER,
+      'UJ-100,Universal joint,SUP-1,12.50,,,4',
+      'SEAL-7,Pinion seal,,3,9.99,0,',
+      'KIT-9,Swivel kit,,120.5,,5,',
+      '+ADAPTER-1,=2+3 adapter,-X,1,,,',
+    )
     const res = await sendCsv(owner, '/api/parts/import', file).expect(200)
     expect(res.body.summary).toEqual({ added: 4, changed: 0, unchanged: 0 })
 
     const rows = await t.db.select().from(parts).where(eq(parts.workshopId, shop.workshop.id))
     const byNumber = Object.fromEntries(rows.map((r) => [r.partNumber, r]))
-    expect(byNumber['UJ-100']).toMatchObject({ costMinor: 1250, sellPriceMinor: null, taxRate: '20.00', stockQuantity: 4, supplierRef: 'SUP-1' })
-    expect(byNumber['SEAL-7']).toMatchObject({ costMinor: 300, sellPriceMinor: 999, taxRate: '0.00', stockQuantity: null, supplierRef: null })
+    expect(byNumber['UJ-100']).toMatchObject({
+      costMinor: 1250,
+      sellPriceMinor: null,
+      taxRate: '20.00',
+      stockQuantity: 4,
+      supplierRef: 'SUP-1',
+    })
+    expect(byNumber['SEAL-7']).toMatchObject({
+      costMinor: 300,
+      sellPriceMinor: 999,
+      taxRate: '0.00',
+      stockQuantity: null,
+      supplierRef: null,
+    })
     expect(byNumber['KIT-9']).toMatchObject({ costMinor: 12050, taxRate: '5.00' })
 
     const list = await owner.get('/api/parts?q=UJ-100').expect(200)
@@ -266,7 +321,11 @@ describe('parts import', () => {
 
   it('says how to write money it cannot read', async () => {
     const { owner } = await freshShop('Parts Money Works')
-    const res = await sendCsv(owner, '/api/parts/import/dry-run', csv(HEADER, 'P-1,Thing,,£12.50,,,', 'P-2,Thing,,1.234,,,', 'P-3,Thing,,1,1,,2.5')).expect(200)
+    const res = await sendCsv(
+      owner,
+      '/api/parts/import/dry-run',
+      csv(HEADER, 'P-1,Thing,,£12.50,,,', 'P-2,Thing,,1.234,,,', 'P-3,Thing,,1,1,,2.5'),
+    ).expect(200)
     expect(res.body.errors).toEqual([
       { row: 2, column: 'cost', message: expect.stringContaining('like 12.50') },
       { row: 3, column: 'cost', message: expect.stringContaining('like 12.50') },
@@ -276,7 +335,11 @@ describe('parts import', () => {
 
   it('reads a spreadsheet saved with semicolons', async () => {
     const { owner } = await freshShop('Parts Semicolon Works')
-    const res = await sendCsv(owner, '/api/parts/import/dry-run', csv(HEADER.replaceAll(',', ';'), 'P-1;Thing, with comma;;2.00;;;')).expect(200)
+    const res = await sendCsv(
+      owner,
+      '/api/parts/import/dry-run',
+      csv(HEADER.replaceAll(',', ';'), 'P-1;Thing, with comma;;2.00;;;'),
+    ).expect(200)
     expect(res.body.errors).toEqual([])
     expect(res.body.summary.added).toBe(1)
   })

@@ -18,27 +18,105 @@ beforeAll(async () => {
   shop = await makeWorkshop(t.db, 'Search Works')
   owner = await signIn(t.app, shop.owner.email)
   advisor = await signIn(t.app, shop.advisor.email)
-  await owner.put('/api/pricing', { rates: { standard: 8000, diagnostic: 9000, specialist: 11000 }, defaultTaxRate: '20', markupBands: [] }).expect(200)
+  await owner
+    .put('/api/pricing', { rates: { standard: 8000, diagnostic: 9000, specialist: 11000 }, defaultTaxRate: '20', markupBands: [] })
+    .expect(200)
   await addSteps(owner, [
     { code: 'FH-WHEEL', name: 'Front wheel off and on', hours: '0.3' },
     { code: 'FH-HUB', name: 'Front hub off and on', hours: '1', includes: ['FH-WHEEL'] },
   ])
   await addOperations(owner, [
-    { code: 'PS-UJ-R', name: 'Replace rear prop shaft universal joint', synonyms: ['UJ', 'cross and bearing'], system: 'prop_shafts', side: 'none', bookHours: '1.5' },
+    {
+      code: 'PS-UJ-R',
+      name: 'Replace rear prop shaft universal joint',
+      synonyms: ['UJ', 'cross and bearing'],
+      system: 'prop_shafts',
+      side: 'none',
+      bookHours: '1.5',
+    },
     { code: 'PS-SHAFT-F', name: 'Replace front prop shaft', synonyms: ['propshaft'], system: 'prop_shafts', side: 'none', bookHours: '1' },
-    { code: 'FA-DIFF-OH', name: 'Overhaul front differential', synonyms: ['diff rebuild'], system: 'front_axle', side: 'none', bookHours: '6', category: 'specialist' },
-    { code: 'RA-DIFF-OH', name: 'Overhaul rear differential', synonyms: ['diff rebuild'], system: 'rear_axle', side: 'none', bookHours: '5.5', category: 'specialist' },
-    { code: 'FA-SWS-L', name: 'Replace swivel housing seal', synonyms: ['swivel ball seal'], system: 'front_axle', side: 'left', bookHours: '2.2', vehicleGroups: ['group-a'] },
-    { code: 'FA-SWS-R', name: 'Replace swivel housing seal', synonyms: ['swivel ball seal'], system: 'front_axle', side: 'right', bookHours: '2.2', vehicleGroups: ['group-b'] },
-    { code: 'FA-SWB-L', name: 'Replace swivel pin bearings', synonyms: ['kingpin bearings'], system: 'front_axle', side: 'left', bookHours: '3' },
-    { code: 'FA-CV-L', name: 'Replace CV joint', synonyms: ['constant velocity joint'], system: 'front_axle', side: 'left', bookHours: '3.5', accessSteps: ['FH-HUB'] },
-    { code: 'HB-BRG-FL', name: 'Replace front hub bearing', synonyms: ['wheel bearing'], system: 'hubs_bearings', side: 'left', bookHours: '2', accessSteps: ['FH-HUB'] },
+    {
+      code: 'FA-DIFF-OH',
+      name: 'Overhaul front differential',
+      synonyms: ['diff rebuild'],
+      system: 'front_axle',
+      side: 'none',
+      bookHours: '6',
+      category: 'specialist',
+    },
+    {
+      code: 'RA-DIFF-OH',
+      name: 'Overhaul rear differential',
+      synonyms: ['diff rebuild'],
+      system: 'rear_axle',
+      side: 'none',
+      bookHours: '5.5',
+      category: 'specialist',
+    },
+    {
+      code: 'FA-SWS-L',
+      name: 'Replace swivel housing seal',
+      synonyms: ['swivel ball seal'],
+      system: 'front_axle',
+      side: 'left',
+      bookHours: '2.2',
+      vehicleGroups: ['group-a'],
+    },
+    {
+      code: 'FA-SWS-R',
+      name: 'Replace swivel housing seal',
+      synonyms: ['swivel ball seal'],
+      system: 'front_axle',
+      side: 'right',
+      bookHours: '2.2',
+      vehicleGroups: ['group-b'],
+    },
+    {
+      code: 'FA-SWB-L',
+      name: 'Replace swivel pin bearings',
+      synonyms: ['kingpin bearings'],
+      system: 'front_axle',
+      side: 'left',
+      bookHours: '3',
+    },
+    {
+      code: 'FA-CV-L',
+      name: 'Replace CV joint',
+      synonyms: ['constant velocity joint'],
+      system: 'front_axle',
+      side: 'left',
+      bookHours: '3.5',
+      accessSteps: ['FH-HUB'],
+    },
+    {
+      code: 'HB-BRG-FL',
+      name: 'Replace front hub bearing',
+      synonyms: ['wheel bearing'],
+      system: 'hubs_bearings',
+      side: 'left',
+      bookHours: '2',
+      accessSteps: ['FH-HUB'],
+    },
     { code: 'TB-OUT-BRG', name: 'Replace transfer box output bearing', system: 'transfer_box', side: 'none', bookHours: '4' },
-    { code: 'TB-DLOCK', name: 'Repair centre differential lock', synonyms: ['diff lock'], system: 'transfer_box', side: 'none', bookHours: '2.5' },
+    {
+      code: 'TB-DLOCK',
+      name: 'Repair centre differential lock',
+      synonyms: ['diff lock'],
+      system: 'transfer_box',
+      side: 'none',
+      bookHours: '2.5',
+    },
     { code: 'ST-TRE-L', name: 'Replace track rod end', synonyms: ['TRE'], system: 'steering', side: 'left', bookHours: '0.8' },
     { code: 'ST-DAMP', name: 'Replace steering damper', system: 'steering', side: 'none', bookHours: '0.5' },
     { code: 'RA-PIN-SEAL', name: 'Replace rear pinion oil seal', system: 'rear_axle', side: 'none', bookHours: '1.8' },
-    { code: 'DX-NOISE', name: 'Trace drivetrain noise on road test', system: 'rear_axle', side: 'none', bookHours: '1', category: 'diagnostic' },
+    {
+      code: 'DX-NOISE',
+      name: 'Trace drivetrain noise on road test',
+      system: 'rear_axle',
+      side: 'none',
+      bookHours: '1',
+      category: 'diagnostic',
+    },
   ])
 }, 60_000)
 
@@ -177,7 +255,16 @@ describe('labour lookup: tenancy', () => {
   it('never returns another workshop’s operations, even for the same words', async () => {
     const other = await makeWorkshop(t.db, 'Search Elsewhere')
     const otherOwner = await signIn(t.app, other.owner.email)
-    await addOperations(otherOwner, [{ code: 'ELSEWHERE-UJ', name: 'Replace universal joint elsewhere', synonyms: ['UJ'], system: 'prop_shafts', side: 'none', bookHours: '1' }])
+    await addOperations(otherOwner, [
+      {
+        code: 'ELSEWHERE-UJ',
+        name: 'Replace universal joint elsewhere',
+        synonyms: ['UJ'],
+        system: 'prop_shafts',
+        side: 'none',
+        bookHours: '1',
+      },
+    ])
     expect(codes(await search({ q: 'UJ' }))).not.toContain('ELSEWHERE-UJ')
     expect(codes(await search({ q: 'UJ' }, otherOwner))).toEqual(['ELSEWHERE-UJ'])
   })

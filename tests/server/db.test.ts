@@ -29,7 +29,14 @@ describe('database round trip through Drizzle', () => {
     const [person] = await t.db.insert(customers).values({ workshopId: shop.id, name: 'Ada Test', email: 'ada@example.test' }).returning()
     const [car] = await t.db
       .insert(vehicles)
-      .values({ workshopId: shop.id, customerId: person!.id, registration: 'AB12 CDE', make: 'Testmake', model: 'One', vin: '1HGBH41JXMN109186' })
+      .values({
+        workshopId: shop.id,
+        customerId: person!.id,
+        registration: 'AB12 CDE',
+        make: 'Testmake',
+        model: 'One',
+        vin: '1HGBH41JXMN109186',
+      })
       .returning()
     await t.db.insert(jobs).values({ workshopId: shop.id, vehicleId: car!.id, concern: 'Clunk on take-up of drive' })
 
@@ -49,17 +56,23 @@ describe('constraints encode the rules', () => {
     const shop = await newWorkshop()
     const [person] = await t.db.insert(customers).values({ workshopId: shop.id, name: 'Vin Test', phone: '01632 960000' }).returning()
     expect(
-      await violation(t.db.insert(vehicles).values({ workshopId: shop.id, customerId: person!.id, registration: 'X1', make: 'M', model: 'N', vin: '1HGBH41JXMN1O9186' })),
+      await violation(
+        t.db
+          .insert(vehicles)
+          .values({ workshopId: shop.id, customerId: person!.id, registration: 'X1', make: 'M', model: 'N', vin: '1HGBH41JXMN1O9186' }),
+      ),
     ).toBe('vehicles_vin_iso3779')
   })
 
-  it("refuses a vehicle whose customer belongs to another workshop", async () => {
+  it('refuses a vehicle whose customer belongs to another workshop', async () => {
     const a = await newWorkshop()
     const b = await newWorkshop()
     const [person] = await t.db.insert(customers).values({ workshopId: a.id, name: 'Cross Test', phone: '01632 960001' }).returning()
-    expect(await violation(t.db.insert(vehicles).values({ workshopId: b.id, customerId: person!.id, registration: 'X2', make: 'M', model: 'N' }))).toMatch(
-      /^vehicles_workshop_id_customer_id/,
-    )
+    expect(
+      await violation(
+        t.db.insert(vehicles).values({ workshopId: b.id, customerId: person!.id, registration: 'X2', make: 'M', model: 'N' }),
+      ),
+    ).toMatch(/^vehicles_workshop_id_customer_id/)
   })
 
   it('refuses a customer with no way to reach them', async () => {
@@ -71,8 +84,8 @@ describe('constraints encode the rules', () => {
     const shop = await newWorkshop()
     const email = `same-${Date.now()}@example.test`
     await t.db.insert(staffUsers).values({ workshopId: shop.id, name: 'One', email, role: 'advisor' })
-    expect(await violation(t.db.insert(staffUsers).values({ workshopId: shop.id, name: 'Two', email: email.toUpperCase(), role: 'owner' }))).toBe(
-      'staff_users_email_unique',
-    )
+    expect(
+      await violation(t.db.insert(staffUsers).values({ workshopId: shop.id, name: 'Two', email: email.toUpperCase(), role: 'owner' })),
+    ).toBe('staff_users_email_unique')
   })
 })

@@ -78,7 +78,10 @@ async function row(id: string) {
 async function makeEstimate(workshopId: string, jobId: string) {
   // Only a target for the outbox's foreign key: the draft is never read here.
   const draft = { items: [] } as unknown as EstimateDraft
-  const [e] = await db.insert(estimates).values({ workshopId, jobId, number: Math.floor(Math.random() * 1e9), draft }).returning()
+  const [e] = await db
+    .insert(estimates)
+    .values({ workshopId, jobId, number: Math.floor(Math.random() * 1e9), draft })
+    .returning()
   if (!e) throw new Error('no estimate')
   return e
 }
@@ -138,7 +141,9 @@ describe('e-mail outbox', () => {
     expect(full.attachments).toHaveLength(1)
     const [att] = full.attachments
     expect(att).toMatchObject({ filename: 'estimate-E-0042.pdf', contentType: 'application/pdf' })
-    const bytes = new Uint8Array(await (await fetch(`${process.env.MAILDEV_URL}/api/email/${mail.id}/attachment/${att?.generatedFileName}`)).arrayBuffer())
+    const bytes = new Uint8Array(
+      await (await fetch(`${process.env.MAILDEV_URL}/api/email/${mail.id}/attachment/${att?.generatedFileName}`)).arrayBuffer(),
+    )
     expect(Buffer.from(bytes).equals(Buffer.from(tinyPdf))).toBe(true)
     expect(rendered).toEqual([{ versionId, workshopId: f.workshop.id }])
 
@@ -158,7 +163,10 @@ describe('e-mail outbox', () => {
   it('delivers a message sent while the mail server is down once it comes back', async () => {
     const f = await makeWorkshop(db)
     const smtpPort = await getPort({ host: '127.0.0.1' })
-    const { outbox } = makeOutbox({ mailer: createMailer({ ...env, SMTP_PORT: smtpPort }), retry: { limit: 30, delaySeconds: 1, backoff: false } })
+    const { outbox } = makeOutbox({
+      mailer: createMailer({ ...env, SMTP_PORT: smtpPort }),
+      retry: { limit: 30, delaySeconds: 1, backoff: false },
+    })
     const msg = message(f.workshop.id)
 
     const { id } = await outbox.queue(msg)
@@ -177,7 +185,11 @@ describe('e-mail outbox', () => {
     smtp.on('new', (mail: (typeof caught)[number]) => caught.push(mail))
     cleanups.push(() => maildev.stop())
 
-    const sent = await waitFor('the message to be sent after the mail server came back', async () => ((await row(id))?.status === 'sent' ? row(id) : undefined), 30_000)
+    const sent = await waitFor(
+      'the message to be sent after the mail server came back',
+      async () => ((await row(id))?.status === 'sent' ? row(id) : undefined),
+      30_000,
+    )
     expect(sent?.attempts).toBeGreaterThanOrEqual(failing.attempts + 1)
     expect(sent?.lastError).toBeNull()
     expect(caught.filter((m) => m.to.some((t) => t.address === msg.to)).map((m) => m.subject)).toEqual([msg.subject])
@@ -216,7 +228,10 @@ describe('e-mail outbox', () => {
     let down = true
     const mailer: Mailer = {
       async send(m) {
-        if (down) throw new Error('421 Service not available, closing transmission channel\n    at SMTPConnection._actionGreeting (smtp-connection.js:1:1)')
+        if (down)
+          throw new Error(
+            '421 Service not available, closing transmission channel\n    at SMTPConnection._actionGreeting (smtp-connection.js:1:1)',
+          )
         await real.send(m)
       },
     }
@@ -225,17 +240,28 @@ describe('e-mail outbox', () => {
 
     const { id } = await outbox.queue(msg)
 
-    const failed = await waitFor('the message to be marked failed', async () => ((await row(id))?.status === 'failed' ? row(id) : undefined))
+    const failed = await waitFor('the message to be marked failed', async () =>
+      (await row(id))?.status === 'failed' ? row(id) : undefined,
+    )
     // One attempt and two retries.
-    expect(failed).toMatchObject({ status: 'failed', attempts: 3, lastError: '421 Service not available, closing transmission channel', sentAt: null })
-    await waitFor('the failed event', async () => live.some((e) => e.estimateId === estimate.id && /could not be sent: 421/.test(e.summary ?? '')))
+    expect(failed).toMatchObject({
+      status: 'failed',
+      attempts: 3,
+      lastError: '421 Service not available, closing transmission channel',
+      sentAt: null,
+    })
+    await waitFor('the failed event', async () =>
+      live.some((e) => e.estimateId === estimate.id && /could not be sent: 421/.test(e.summary ?? '')),
+    )
 
     down = false
     await outbox.resend(f.workshop.id, id)
     expect(await row(id)).toMatchObject({ status: 'queued', lastError: null })
 
     await waitForMail(msg.to, { timeoutMs: 20_000 })
-    const sent = await waitFor('the resent message to be marked sent', async () => ((await row(id))?.status === 'sent' ? row(id) : undefined))
+    const sent = await waitFor('the resent message to be marked sent', async () =>
+      (await row(id))?.status === 'sent' ? row(id) : undefined,
+    )
     expect(sent).toMatchObject({ attempts: 4, lastError: null })
     expect(await mailsTo(msg.to)).toHaveLength(1)
   })
@@ -261,13 +287,24 @@ describe('e-mail outbox', () => {
     // As left behind when a process stopped during a message's last attempt: queued, with no live job.
     const [orphan] = await db
       .insert(outboundEmails)
-      .values({ workshopId: f.workshop.id, kind: msg.kind, to: msg.to, subject: msg.subject, message: { text: msg.text, html: msg.html, replyTo: null, fromName: null, attachments: [] } })
+      .values({
+        workshopId: f.workshop.id,
+        kind: msg.kind,
+        to: msg.to,
+        subject: msg.subject,
+        message: { text: msg.text, html: msg.html, replyTo: null, fromName: null, attachments: [] },
+      })
       .returning()
     if (!orphan) throw new Error('no row')
 
     // One process sweeps at a time (advisory lock): while another test file's worker holds it, a sweep
     // does nothing, so sweep until one has run rather than trusting the first call.
-    const jobs = async () => (await db.execute(sql`select 1 from pgboss.job where data->>'emailId' = ${orphan.id} and state in ('created', 'retry', 'active', 'completed')`)).rows
+    const jobs = async () =>
+      (
+        await db.execute(
+          sql`select 1 from pgboss.job where data->>'emailId' = ${orphan.id} and state in ('created', 'retry', 'active', 'completed')`,
+        )
+      ).rows
     await waitFor('a sweep to queue the orphan', async () => {
       await worker.sweep()
       return (await jobs()).length > 0
@@ -285,7 +322,10 @@ describe('e-mail outbox', () => {
     const { id } = await t.outbox.queue(msg)
     await waitForMail(msg.to, { timeoutMs: 20_000 })
     await waitFor('the row to be marked sent', async () => {
-      const [r] = await db.select().from(outboundEmails).where(and(eq(outboundEmails.id, id), eq(outboundEmails.status, 'sent')))
+      const [r] = await db
+        .select()
+        .from(outboundEmails)
+        .where(and(eq(outboundEmails.id, id), eq(outboundEmails.status, 'sent')))
       return r
     })
   })

@@ -62,7 +62,9 @@ describe('from finding to the customer’s decision, seen live by the advisor', 
     const cookie = await signInCookie(one.app, shop.advisor.email)
     const advisor = withCookie(one.app, cookie)
     const created = (await advisor.post('/api/estimates', { jobId: shop.job.id, findingIds: [finding.id] })).body as EstimateDetail
-    expect(created.draft.items[0]?.lines.map((l) => (l.kind === 'labour' ? l.operationCode : l.kind === 'part' ? l.partNumber : null))).toEqual(['PROP-UJ-F', 'UJ-STD-C'])
+    expect(
+      created.draft.items[0]?.lines.map((l) => (l.kind === 'labour' ? l.operationCode : l.kind === 'part' ? l.partNumber : null)),
+    ).toEqual(['PROP-UJ-F', 'UJ-STD-C'])
 
     const [a, b] = await Promise.all([listen(one.app), listen(two.app)])
     stops.push(a.close, b.close)
@@ -84,12 +86,17 @@ describe('from finding to the customer’s decision, seen live by the advisor', 
     const page = (await customer.get(`/api/portal/estimates/${created.id}`)).body as PortalEstimate
     const item = page.snapshot.items[0]
     if (!item) throw new Error('no item')
-    const decided = await customer.put(`/api/portal/estimates/${created.id}/decisions/${item.id}`, { version: page.version, decision: 'approved' })
+    const decided = await customer.put(`/api/portal/estimates/${created.id}/decisions/${item.id}`, {
+      version: page.version,
+      decision: 'approved',
+    })
     expect(decided.status, JSON.stringify(decided.body)).toBe(200)
     const expected = calculateEstimate(snapshotToEngineInput(page.snapshot, { [item.id]: 'approved' }))
     expect(decided.body.result.approved.gross).toBe(expected.approved.gross)
 
-    const heard = await Promise.all([onOne, onTwo].map((s) => s.waitFor((e) => e.type === 'estimate.decision' && e.estimateId === created.id)))
+    const heard = await Promise.all(
+      [onOne, onTwo].map((s) => s.waitFor((e) => e.type === 'estimate.decision' && e.estimateId === created.id)),
+    )
     expect(heard.map((e) => e.workshopId)).toEqual([shop.workshop.id, shop.workshop.id])
 
     const detail = (await advisor.get(`/api/estimates/${created.id}`)).body as EstimateDetail

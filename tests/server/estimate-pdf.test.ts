@@ -38,7 +38,10 @@ function demoSnapshot(itemCount: number, oddTitle?: string): EstimateSnapshot {
       title: i === 4 && oddTitle ? oddTitle : `${TITLES[i % TITLES.length]} (finding ${i + 1})`,
       severity: SEVERITIES[i % SEVERITIES.length]!,
       customerNote: i % 2 === 0 ? NOTE : '',
-      explanation: i % 5 === 0 ? { what: 'Worn joint', why: 'A worn joint can break and stop the car.', ifLeft: 'Loss of drive on that wheel.' } : null,
+      explanation:
+        i % 5 === 0
+          ? { what: 'Worn joint', why: 'A worn joint can break and stop the car.', ifLeft: 'Loss of drive on that wheel.' }
+          : null,
       measurement: i % 4 === 1 ? `Backlash ${40 + i}° at the prop flange` : null,
       photoIds: [],
       requires: [],
@@ -54,7 +57,15 @@ function demoSnapshot(itemCount: number, oddTitle?: string): EstimateSnapshot {
           operationCode: null,
           category: null,
         },
-        { kind: 'part' as const, id: `l${i}b`, description: `Seal kit, part ${1000 + i}`, quantity: i % 2 ? '2' : '1', unitPrice: 2499 + i * 37, taxRate: '20', partNumber: null },
+        {
+          kind: 'part' as const,
+          id: `l${i}b`,
+          description: `Seal kit, part ${1000 + i}`,
+          quantity: i % 2 ? '2' : '1',
+          unitPrice: 2499 + i * 37,
+          taxRate: '20',
+          partNumber: null,
+        },
         { kind: 'fee' as const, id: `l${i}c`, description: 'Waste oil disposal', amount: 350, taxRate: '0' },
       ],
     }
@@ -104,7 +115,13 @@ async function readPdf(bytes: Uint8Array): Promise<PageText[]> {
     const items = content.items
       .filter((i) => 'str' in i)
       .map((i) => ({ str: i.str, x: i.transform[4] as number, y: i.transform[5] as number, width: i.width }))
-    pages.push({ text: items.map((i) => i.str).join(' ').replace(/\s+/g, ' '), items })
+    pages.push({
+      text: items
+        .map((i) => i.str)
+        .join(' ')
+        .replace(/\s+/g, ' '),
+      items,
+    })
   }
   await pdf.destroy()
   return pages
@@ -166,7 +183,6 @@ describe('estimate PDF', () => {
     expect(text).not.toContain('Approved')
     expect(text).not.toContain('Declined')
 
-
     expect(text).toContain(HASH)
   })
 
@@ -202,9 +218,22 @@ describe('estimate PDF', () => {
       ip: '203.0.113.7',
       userAgent: 'Mozilla/5.0 (Linux; Android 14; Pixel 8) AppleWebKit/537.36 (KHTML, like Gecko) Chrome/131.0.0.0 Mobile Safari/537.36',
     }
-    const deposit: PdfDeposit = { amountMinor: decided.approved.deposit, status: 'paid', paidAt: '2026-12-02T14:03:55Z', refundedMinor: null }
+    const deposit: PdfDeposit = {
+      amountMinor: decided.approved.deposit,
+      status: 'paid',
+      paidAt: '2026-12-02T14:03:55Z',
+      refundedMinor: null,
+    }
     const pages = await readPdf(
-      await renderEstimatePdf({ snapshot, result: decided, sentAt: '2026-12-02T10:15:00Z', timezone: 'Europe/London', decision, deposit, hash: HASH }),
+      await renderEstimatePdf({
+        snapshot,
+        result: decided,
+        sentAt: '2026-12-02T10:15:00Z',
+        timezone: 'Europe/London',
+        decision,
+        deposit,
+        hash: HASH,
+      }),
     )
     const text = allText(pages)
 
@@ -239,7 +268,11 @@ describe('estimate PDF', () => {
     const small = demoSnapshot(1)
     const priced = calculateEstimate(snapshotToEngineInput(small))
     // 23:30 UTC on 1 December is 08:30 on 2 December in Tokyo (UTC+9, no daylight saving; from memory).
-    const text = allText(await readPdf(await renderEstimatePdf({ snapshot: small, result: priced, sentAt: '2026-12-01T23:30:00Z', timezone: 'Asia/Tokyo', hash: HASH })))
+    const text = allText(
+      await readPdf(
+        await renderEstimatePdf({ snapshot: small, result: priced, sentAt: '2026-12-01T23:30:00Z', timezone: 'Asia/Tokyo', hash: HASH }),
+      ),
+    )
     expect(text).toContain('Sent 2 December 2026')
     expect(text).toContain('Page 1 of 1')
   })
@@ -257,7 +290,19 @@ describe('estimate PDF', () => {
       userAgent: null,
     }
     const render = async (deposit: PdfDeposit) =>
-      allText(await readPdf(await renderEstimatePdf({ snapshot: small, result: priced, sentAt: '2026-07-01T08:00:00Z', timezone: 'Europe/London', decision, deposit, hash: HASH })))
+      allText(
+        await readPdf(
+          await renderEstimatePdf({
+            snapshot: small,
+            result: priced,
+            sentAt: '2026-07-01T08:00:00Z',
+            timezone: 'Europe/London',
+            decision,
+            deposit,
+            hash: HASH,
+          }),
+        ),
+      )
     const amount = formatMoney(priced.approved.deposit, 'GBP')
 
     const awaiting = await render({ amountMinor: priced.approved.deposit, status: 'awaiting_payment', paidAt: null, refundedMinor: null })
@@ -267,7 +312,12 @@ describe('estimate PDF', () => {
     // London keeps British Summer Time (UTC+1) in July (common practice).
     expect(awaiting).toContain('Confirmed 1 July 2026 at 10:00 BST (Europe/London)')
 
-    const refunded = await render({ amountMinor: priced.approved.deposit, status: 'refunded', paidAt: '2026-07-01T09:05:00Z', refundedMinor: 1000 })
+    const refunded = await render({
+      amountMinor: priced.approved.deposit,
+      status: 'refunded',
+      paidAt: '2026-07-01T09:05:00Z',
+      refundedMinor: 1000,
+    })
     expect(refunded).toContain(`Deposit of ${amount} paid 1 Jul 2026 10:05, ${formatMoney(1000, 'GBP')} refunded`)
   })
 
@@ -282,7 +332,14 @@ describe('estimate PDF', () => {
       ip: null,
       userAgent: null,
     }
-    const input = { snapshot: small, result: calculateEstimate(snapshotToEngineInput(small, decisions)), sentAt: '2026-12-02T10:15:00Z', timezone: 'Europe/London', decision, hash: HASH }
+    const input = {
+      snapshot: small,
+      result: calculateEstimate(snapshotToEngineInput(small, decisions)),
+      sentAt: '2026-12-02T10:15:00Z',
+      timezone: 'Europe/London',
+      decision,
+      hash: HASH,
+    }
     expect(Buffer.from(await renderEstimatePdf(input)).equals(Buffer.from(await renderEstimatePdf(input)))).toBe(true)
 
     const undecided = calculateEstimate(snapshotToEngineInput(small))
@@ -293,14 +350,24 @@ describe('estimate PDF', () => {
     const odd = demoSnapshot(6, 'Checked ✓ 检查 axle')
     odd.customer.name = 'Zoë Łukasiewicz'
     const priced = calculateEstimate(snapshotToEngineInput(odd))
-    const text = allText(await readPdf(await renderEstimatePdf({ snapshot: odd, result: priced, sentAt: '2026-12-02T10:15:00Z', timezone: 'Europe/London', hash: HASH })))
+    const text = allText(
+      await readPdf(
+        await renderEstimatePdf({ snapshot: odd, result: priced, sentAt: '2026-12-02T10:15:00Z', timezone: 'Europe/London', hash: HASH }),
+      ),
+    )
     expect(text).toContain('Checked ? ?? axle')
     expect(text).toContain('Zoë ?ukasiewicz')
   })
 
   it('embeds both Lato weights in the file', async () => {
     const small = demoSnapshot(3)
-    const bytes = await renderEstimatePdf({ snapshot: small, result: calculateEstimate(snapshotToEngineInput(small)), sentAt: '2026-12-02T10:15:00Z', timezone: 'Europe/London', hash: HASH })
+    const bytes = await renderEstimatePdf({
+      snapshot: small,
+      result: calculateEstimate(snapshotToEngineInput(small)),
+      sentAt: '2026-12-02T10:15:00Z',
+      timezone: 'Europe/London',
+      hash: HASH,
+    })
     const doc = await PDFDocument.load(bytes)
     const embedded: string[] = []
     for (const [, object] of doc.context.enumerateIndirectObjects()) {

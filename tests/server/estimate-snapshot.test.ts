@@ -12,7 +12,14 @@ const snapshot: EstimateSnapshot = {
   version: 1,
   expiresOn: '2026-12-16',
   currency: 'GBP',
-  workshop: { name: 'Brackenfold 4x4 Works', addressLines: ['Unit 3, Mill Lane'], postcode: 'BF1 2AA', phone: null, email: 'desk@brackenfold4x4.test', vatNumber: null },
+  workshop: {
+    name: 'Brackenfold 4x4 Works',
+    addressLines: ['Unit 3, Mill Lane'],
+    postcode: 'BF1 2AA',
+    phone: null,
+    email: 'desk@brackenfold4x4.test',
+    vatNumber: null,
+  },
   customer: { id: '0e7f5a9c-2b4d-4c61-8f3e-5a6b7c8d9e0f', name: 'Rhian Calloway', email: 'rhian.calloway@example.test' },
   vehicle: { registration: 'BF12 KTX', make: 'Harrowgate', model: 'Ridgeback 110', year: 2012, vin: null },
   message: '',
@@ -28,7 +35,17 @@ const snapshot: EstimateSnapshot = {
       photoIds: [],
       requires: [],
       lines: [
-        { id: 'l1', kind: 'labour', description: 'Replace swivel housing oil seal', hours: '3.2', rate: 8500, taxRate: '20', accessSteps: [], operationCode: null, category: null },
+        {
+          id: 'l1',
+          kind: 'labour',
+          description: 'Replace swivel housing oil seal',
+          hours: '3.2',
+          rate: 8500,
+          taxRate: '20',
+          accessSteps: [],
+          operationCode: null,
+          category: null,
+        },
         { id: 'l2', kind: 'part', description: 'Seal kit', quantity: '1', unitPrice: 3190, taxRate: '20', partNumber: null },
         { id: 'l3', kind: 'fee', description: 'Oil disposal', amount: 450, taxRate: '20' },
       ],
@@ -44,7 +61,12 @@ const snapshot: EstimateSnapshot = {
 /** Rebuilds every object with its keys in reverse order. */
 function reversedKeys(value: unknown): unknown {
   if (Array.isArray(value)) return value.map(reversedKeys)
-  if (value && typeof value === 'object') return Object.fromEntries(Object.entries(value).reverse().map(([k, v]) => [k, reversedKeys(v)]))
+  if (value && typeof value === 'object')
+    return Object.fromEntries(
+      Object.entries(value)
+        .reverse()
+        .map(([k, v]) => [k, reversedKeys(v)]),
+    )
   return value
 }
 
@@ -74,11 +96,24 @@ describe('version hash (SHA-256 over RFC 8785 canonical JSON)', () => {
   it('changes with hours, tax rate, deposit policy and wording', () => {
     const base = snapshotHash(snapshot)
     const edits: ((s: EstimateSnapshot) => void)[] = [
-      (s) => { const l = s.items[0]?.lines[0]; if (l?.kind === 'labour') l.hours = '3.3' },
-      (s) => { const l = s.items[0]?.lines[1]; if (l) l.taxRate = '5' },
-      (s) => { s.deposit = { kind: 'percent', value: '30' } },
-      (s) => { const i = s.items[0]; if (i) i.title = `${i.title}.` },
-      (s) => { s.expiresOn = '2026-12-17' },
+      (s) => {
+        const l = s.items[0]?.lines[0]
+        if (l?.kind === 'labour') l.hours = '3.3'
+      },
+      (s) => {
+        const l = s.items[0]?.lines[1]
+        if (l) l.taxRate = '5'
+      },
+      (s) => {
+        s.deposit = { kind: 'percent', value: '30' }
+      },
+      (s) => {
+        const i = s.items[0]
+        if (i) i.title = `${i.title}.`
+      },
+      (s) => {
+        s.expiresOn = '2026-12-17'
+      },
     ]
     for (const edit of edits) {
       const copy = structuredClone(snapshot)

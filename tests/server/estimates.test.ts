@@ -11,7 +11,11 @@ import { linkIn, waitForMail } from './helpers/mail'
 const t = makeTestApp()
 afterAll(() => t.close())
 
-const explanation = { what: 'Oil is leaking past the seal.', why: 'A seal that lets oil out lets water and grit in.', ifLeft: 'The joint wears quickly.' }
+const explanation = {
+  what: 'Oil is leaking past the seal.',
+  why: 'A seal that lets oil out lets water and grit in.',
+  ifLeft: 'The joint wears quickly.',
+}
 
 async function addFinding(shop: Fixture, over: Partial<typeof findings.$inferInsert> = {}) {
   const [f] = await t.db
@@ -44,7 +48,11 @@ describe('estimates', () => {
 
   it('turns findings into items priced from the labour table and parts list, sharing access between them', async () => {
     const seal = await addFinding(shop)
-    const cv = await addFinding(shop, { title: 'Left CV joint clicking on full lock', severity: 'urgent', suggestedRepair: { labour: ['CV-REPLACE'], parts: ['CV-JOINT', 'NOT-A-PART'] } })
+    const cv = await addFinding(shop, {
+      title: 'Left CV joint clicking on full lock',
+      severity: 'urgent',
+      suggestedRepair: { labour: ['CV-REPLACE'], parts: ['CV-JOINT', 'NOT-A-PART'] },
+    })
     const res = await advisor.post('/api/estimates', { jobId: shop.job.id, findingIds: [seal.id, cv.id] })
     expect(res.status, JSON.stringify(res.body)).toBe(201)
     const est = res.body as EstimateDetail
@@ -66,7 +74,9 @@ describe('estimates', () => {
     expect(est.notices.join(' ')).toContain('2 parts match SWV-SEAL-KIT (SWV-SEAL-KIT-C, SWV-SEAL-KIT-L)')
 
     // Both approved, the second item does not pay again for the hub the first one takes off.
-    const figures = calculateEstimate(draftToEngineInput(est.draft, est.currency, { [first?.id ?? '']: 'approved', [second?.id ?? '']: 'approved' }))
+    const figures = calculateEstimate(
+      draftToEngineInput(est.draft, est.currency, { [first?.id ?? '']: 'approved', [second?.id ?? '']: 'approved' }),
+    )
     expect(figures.items[1]?.sharedSaving).toBeGreaterThan(0)
     expect(figures.proposed.sharedSaving).toBe(figures.items[1]?.sharedSaving)
 
@@ -80,7 +90,10 @@ describe('estimates', () => {
     const owner = await signIn(t.app, own.owner.email)
     const jobIds = await Promise.all(
       Array.from({ length: 20 }, async (_, i) => {
-        const [j] = await t.db.insert(jobs).values({ workshopId: own.workshop.id, vehicleId: own.vehicle.id, concern: `Concurrent job ${i}` }).returning()
+        const [j] = await t.db
+          .insert(jobs)
+          .values({ workshopId: own.workshop.id, vehicleId: own.vehicle.id, concern: `Concurrent job ${i}` })
+          .returning()
         return j?.id as string
       }),
     )
@@ -96,13 +109,26 @@ describe('estimates', () => {
     const est = (await b.post('/api/estimates', { jobId: own.job.id })).body as EstimateDetail
     const draft: EstimateDraft = {
       ...est.draft,
-      items: [{ id: 'a', findingId: null, title: 'Prop shaft UJ worn', severity: 'soon', customerNote: '', requires: ['missing'], lines: [{ id: 'l1', kind: 'fee', description: 'Disposal', amount: 500, taxRate: '20' }] }],
+      items: [
+        {
+          id: 'a',
+          findingId: null,
+          title: 'Prop shaft UJ worn',
+          severity: 'soon',
+          customerNote: '',
+          requires: ['missing'],
+          lines: [{ id: 'l1', kind: 'fee', description: 'Disposal', amount: 500, taxRate: '20' }],
+        },
+      ],
     }
     const bad = await b.put(`/api/estimates/${est.id}/draft`, { revision: est.revision, draft })
     expect(bad.status).toBe(422)
     expect(bad.body.error.issues.some((i: { path: unknown[] }) => i.path.join('.').startsWith('draft.items.0.requires'))).toBe(true)
 
-    const ok = await b.put(`/api/estimates/${est.id}/draft`, { revision: est.revision, draft: { ...draft, items: [{ ...draft.items[0], requires: [] }] } })
+    const ok = await b.put(`/api/estimates/${est.id}/draft`, {
+      revision: est.revision,
+      draft: { ...draft, items: [{ ...draft.items[0], requires: [] }] },
+    })
     expect(ok.status, JSON.stringify(ok.body)).toBe(200)
     expect(ok.body.revision).toBe(est.revision + 1)
     const stale = await b.put(`/api/estimates/${est.id}/draft`, { revision: est.revision, draft })
@@ -157,7 +183,11 @@ describe('estimates', () => {
     expect(pdf.status).toBe(200)
     expect(pdf.headers['content-type']).toBe('application/pdf')
     expect(pdf.headers['content-disposition']).toMatch(/E-\d{4}-v2\.pdf/)
-    expect(Buffer.from(pdf.body as Buffer).subarray(0, 5).toString()).toBe('%PDF-')
+    expect(
+      Buffer.from(pdf.body as Buffer)
+        .subarray(0, 5)
+        .toString(),
+    ).toBe('%PDF-')
 
     const listed = await b.get(`/api/estimates?status=sent&q=${encodeURIComponent(own.vehicle.registration)}`)
     expect(listed.body.items.map((i: { id: string }) => i.id)).toEqual([est.id])
@@ -168,7 +198,10 @@ describe('estimates', () => {
 
     const withdrawn = await b.post(`/api/estimates/${est.id}/withdraw`)
     expect(withdrawn.body.status).toBe('withdrawn')
-    const live = await t.db.select().from(estimateLinks).where(and(eq(estimateLinks.workshopId, own.workshop.id)))
+    const live = await t.db
+      .select()
+      .from(estimateLinks)
+      .where(and(eq(estimateLinks.workshopId, own.workshop.id)))
     expect(live.every((l) => l.revokedAt !== null)).toBe(true)
   })
 

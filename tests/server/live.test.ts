@@ -178,7 +178,14 @@ function bareLiveApp(hub: LiveHub, options: Parameters<typeof liveRoutes>[2]) {
   const app = express()
   app.use((req, _res, next) => {
     const { advisor, workshop } = home
-    req.user = { kind: 'staff', id: advisor.id, name: advisor.name, email: advisor.email, role: 'advisor', workshop: { id: workshop.id, name: workshop.name, currency: 'GBP', timezone: 'Europe/London' } }
+    req.user = {
+      kind: 'staff',
+      id: advisor.id,
+      name: advisor.name,
+      email: advisor.email,
+      role: 'advisor',
+      workshop: { id: workshop.id, name: workshop.name, currency: 'GBP', timezone: 'Europe/London' },
+    }
     req.log = pino({ level: 'silent' })
     next()
   })
@@ -191,7 +198,12 @@ function bareLiveApp(hub: LiveHub, options: Parameters<typeof liveRoutes>[2]) {
 describe('the live route’s limits', () => {
   it('refuses a stream (503) rather than hold it open unheard while the database cannot be reached', async () => {
     // Port 1 on loopback: nothing listens there, so the listener can never start.
-    const deadHub = createLiveHub({ connectionString: 'postgres://nobody@127.0.0.1:1/none_test', logger: pino({ level: 'silent' }), retryMs: 50, maxRetryMs: 100 })
+    const deadHub = createLiveHub({
+      connectionString: 'postgres://nobody@127.0.0.1:1/none_test',
+      logger: pino({ level: 'silent' }),
+      retryMs: 50,
+      maxRetryMs: 100,
+    })
     const server = await listen(bareLiveApp(deadHub, { readyTimeoutMs: 300 }))
     try {
       const res = await fetch(`${server.baseUrl}/api/live`)
@@ -233,7 +245,9 @@ describe('the live hub', () => {
       hub.subscribe(workshopId, (e) => heard.push(e))
       await hub.ready()
       await one.db.execute(sql`select pg_notify('tickover_live', 'not json at all')`)
-      await one.db.execute(sql`select pg_notify('tickover_live', ${JSON.stringify({ type: 'estimate.exploded', workshopId, estimateId: randomUUID(), at: 'now' })})`)
+      await one.db.execute(
+        sql`select pg_notify('tickover_live', ${JSON.stringify({ type: 'estimate.exploded', workshopId, estimateId: randomUUID(), at: 'now' })})`,
+      )
       const good = estimateEvent(workshopId)
       await commit(good)
       await vi.waitFor(() => expect(heard.map((e) => e.estimateId)).toEqual([good.estimateId]), { timeout: 5_000 })

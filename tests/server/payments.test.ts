@@ -86,7 +86,10 @@ async function depositOf(confirmationId: string) {
   return row
 }
 
-const paidDeposit = (confirmationId: string) => until('the deposit to be paid', async () => ((await depositOf(confirmationId))?.status === 'paid' ? depositOf(confirmationId) : undefined))
+const paidDeposit = (confirmationId: string) =>
+  until('the deposit to be paid', async () =>
+    (await depositOf(confirmationId))?.status === 'paid' ? depositOf(confirmationId) : undefined,
+  )
 
 function auditOf(action: string, depositId: string) {
   return t.db
@@ -95,11 +98,18 @@ function auditOf(action: string, depositId: string) {
     .where(and(eq(auditEvents.action, action), sql`${auditEvents.details}->>'depositId' = ${depositId}`))
 }
 
-const emailsOf = (estimateId: string, kind: string) => t.db.select().from(outboundEmails).where(and(eq(outboundEmails.estimateId, estimateId), eq(outboundEmails.kind, kind)))
+const emailsOf = (estimateId: string, kind: string) =>
+  t.db
+    .select()
+    .from(outboundEmails)
+    .where(and(eq(outboundEmails.estimateId, estimateId), eq(outboundEmails.kind, kind)))
 const eventRows = (eventId: string) => t.db.select().from(paymentEvents).where(eq(paymentEvents.eventId, eventId))
 
 type CompletedEvent = Stripe.CheckoutSessionCompletedEvent
-const isCompletedFor = (sessionId: string) => (e: Stripe.Event): e is CompletedEvent => e.type === 'checkout.session.completed' && e.data.object.id === sessionId
+const isCompletedFor =
+  (sessionId: string) =>
+  (e: Stripe.Event): e is CompletedEvent =>
+    e.type === 'checkout.session.completed' && e.data.object.id === sessionId
 
 async function completedEvent(accountKey: string, sessionId: string): Promise<CompletedEvent> {
   return until('the checkout.session.completed event', async () => (await fakeState(accountKey)).events.find(isCompletedFor(sessionId)))
@@ -115,7 +125,8 @@ function deliver(body: string, signature: string | null) {
   return (signature === null ? req : req.set('Stripe-Signature', signature)).send(body)
 }
 
-const sign = (body: string, secret = t.env.STRIPE_WEBHOOK_SECRET, timestamp?: number) => stripe.webhooks.generateTestHeaderString({ payload: body, secret, timestamp })
+const sign = (body: string, secret = t.env.STRIPE_WEBHOOK_SECRET, timestamp?: number) =>
+  stripe.webhooks.generateTestHeaderString({ payload: body, secret, timestamp })
 
 async function payDeposit(c: ConfirmedEstimate) {
   const { url } = await service.startCheckout(c.confirmation.id, urls)
@@ -139,7 +150,13 @@ describe('paying a deposit', () => {
       await t.db.update(jobs).set({ status: 'waiting_for_customer' }).where(eq(jobs.id, fx.job.id))
       const { url, sessionId } = await service.startCheckout(c.confirmation.id, urls)
       const waiting = await depositOf(c.confirmation.id)
-      expect(waiting).toMatchObject({ status: 'awaiting_payment', amountMinor: 8085, currency: 'GBP', checkoutSessionId: sessionId, paidAt: null })
+      expect(waiting).toMatchObject({
+        status: 'awaiting_payment',
+        amountMinor: 8085,
+        currency: 'GBP',
+        checkoutSessionId: sessionId,
+        paidAt: null,
+      })
 
       const pageHtml = await (await fetch(url)).text()
       expect(pageHtml).toContain(`Deposit for estimate ${c.reference} v1`)
@@ -171,7 +188,9 @@ describe('paying a deposit', () => {
       expect(receipts[0]).toMatchObject({ to: fx.customer.email, subject: `Deposit received for estimate ${c.reference}` })
       expect(JSON.stringify(receipts[0]?.message)).toContain(formatMoney(8085, 'GBP'))
 
-      const announced = await until('the live event', async () => live.find((e) => e.type === 'estimate.deposit_paid' && e.estimateId === c.estimate.id))
+      const announced = await until('the live event', async () =>
+        live.find((e) => e.type === 'estimate.deposit_paid' && e.estimateId === c.estimate.id),
+      )
       expect(announced).toMatchObject({ workshopId: fx.workshop.id, status: 'deposit_paid' })
 
       expect(await service.getCheckoutStatus(sessionId)).toMatchObject({ state: 'paid', deposit: { status: 'paid', amountMinor: 8085 } })
@@ -274,7 +293,9 @@ describe('paying a deposit', () => {
 
     const failed = await until('the payment_failed delivery', async () => {
       const state = await fakeState(key)
-      const event = state.events.find((e) => e.type === 'payment_intent.payment_failed' && e.data.object.metadata?.confirmationId === c.confirmation.id)
+      const event = state.events.find(
+        (e) => e.type === 'payment_intent.payment_failed' && e.data.object.metadata?.confirmationId === c.confirmation.id,
+      )
       return event && succeededDeliveries(state, event.id).length === 1 ? event : undefined
     })
     expect(await eventRows(failed.id)).toHaveLength(1)
@@ -345,7 +366,12 @@ describe('paying a deposit', () => {
 
   it('makes a new page when the provider no longer knows the last one', async () => {
     const forgetfulKey = freshKey()
-    const forgetful = createDepositsService({ db: t.db, stripe: createStripeClient({ secretKey: forgetfulKey, apiBase: fakeUrl() }), env: t.env, logger: quiet })
+    const forgetful = createDepositsService({
+      db: t.db,
+      stripe: createStripeClient({ secretKey: forgetfulKey, apiBase: fakeUrl() }),
+      env: t.env,
+      logger: quiet,
+    })
     const c = await makeConfirmedEstimate(t.db, fx)
     const first = await forgetful.startCheckout(c.confirmation.id, urls)
     // Restarting the local fake loses its state the same way.
@@ -362,7 +388,12 @@ describe('paying a deposit', () => {
     const closed = await listen(t.app)
     const unreachable = closed.baseUrl
     await closed.close()
-    const offline = createDepositsService({ db: t.db, stripe: createStripeClient({ secretKey: freshKey(), apiBase: unreachable }), env: t.env, logger: quiet })
+    const offline = createDepositsService({
+      db: t.db,
+      stripe: createStripeClient({ secretKey: freshKey(), apiBase: unreachable }),
+      env: t.env,
+      logger: quiet,
+    })
     const c = await makeConfirmedEstimate(t.db, fx)
     await expect(offline.startCheckout(c.confirmation.id, urls)).rejects.toMatchObject({ status: 502, code: 'payment_provider_error' })
     expect(await depositOf(c.confirmation.id)).toBeUndefined()
@@ -430,16 +461,27 @@ describe('payment settings', () => {
     }
   }
 
-  it('uses the local fake\'s key and secret outside production, and the fake as the API when it runs', () => {
+  it("uses the local fake's key and secret outside production, and the fake as the API when it runs", () => {
     const env = loadEnv({ ...base, PAYMENTS_FAKE_URL: 'http://127.0.0.1:12111' })
-    expect(env).toMatchObject({ STRIPE_SECRET_KEY: 'sk_test_local_payments_fake', STRIPE_WEBHOOK_SECRET: 'whsec_local_payments_fake', STRIPE_API_BASE: 'http://127.0.0.1:12111' })
+    expect(env).toMatchObject({
+      STRIPE_SECRET_KEY: 'sk_test_local_payments_fake',
+      STRIPE_WEBHOOK_SECRET: 'whsec_local_payments_fake',
+      STRIPE_API_BASE: 'http://127.0.0.1:12111',
+    })
     expect(loadEnv(base).STRIPE_API_BASE).toBeUndefined()
-    expect(loadEnv({ ...base, PAYMENTS_FAKE_URL: 'http://127.0.0.1:12111', STRIPE_API_BASE: 'http://127.0.0.1:9' }).STRIPE_API_BASE).toBe('http://127.0.0.1:9')
+    expect(loadEnv({ ...base, PAYMENTS_FAKE_URL: 'http://127.0.0.1:12111', STRIPE_API_BASE: 'http://127.0.0.1:9' }).STRIPE_API_BASE).toBe(
+      'http://127.0.0.1:9',
+    )
   })
 
   it('requires a real key and webhook secret in production and refuses malformed ones', () => {
     expect(fieldsOf({ ...base, NODE_ENV: 'production' })).toEqual(['STRIPE_SECRET_KEY', 'STRIPE_WEBHOOK_SECRET'])
-    expect(fieldsOf({ ...base, NODE_ENV: 'production', STRIPE_SECRET_KEY: 'sk_live_abc123', STRIPE_WEBHOOK_SECRET: 'whsec_abc123' })).toEqual([])
-    expect(fieldsOf({ ...base, STRIPE_SECRET_KEY: 'pk_test_abc', STRIPE_WEBHOOK_SECRET: 'secret' })).toEqual(['STRIPE_SECRET_KEY', 'STRIPE_WEBHOOK_SECRET'])
+    expect(
+      fieldsOf({ ...base, NODE_ENV: 'production', STRIPE_SECRET_KEY: 'sk_live_abc123', STRIPE_WEBHOOK_SECRET: 'whsec_abc123' }),
+    ).toEqual([])
+    expect(fieldsOf({ ...base, STRIPE_SECRET_KEY: 'pk_test_abc', STRIPE_WEBHOOK_SECRET: 'secret' })).toEqual([
+      'STRIPE_SECRET_KEY',
+      'STRIPE_WEBHOOK_SECRET',
+    ])
   })
 })

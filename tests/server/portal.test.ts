@@ -6,11 +6,20 @@ import pino from 'pino'
 import request from 'supertest'
 import { afterAll, describe, expect, it } from 'vitest'
 import { createApp } from '../../server/app'
-import { auditEvents, estimateConfirmations, estimateDecisions, estimateLinks, estimateQuestions, estimates, jobs, outboundEmails } from '../../server/db/schema'
+import {
+  auditEvents,
+  estimateConfirmations,
+  estimateDecisions,
+  estimateLinks,
+  estimateQuestions,
+  estimates,
+  jobs,
+  outboundEmails,
+} from '../../server/db/schema'
 import { createLocalStorage } from '../../server/lib/storage'
 import { revokeEstimateLinks } from '../../server/modules/portal/estimate-links'
 import { calculateEstimate } from '../../shared/estimate'
-import type { Decision } from '../../shared/schemas/estimate'
+import type { Decision } from '../../shared/estimate/contract'
 import { snapshotToEngineInput } from '../../shared/schemas/estimates'
 import { DecisionResponseSchema, OpenLinkResponseSchema, PortalEstimateSchema } from '../../shared/schemas/portal'
 import { makeTestApp } from './helpers/app'
@@ -22,7 +31,8 @@ const storage = createLocalStorage(t.env.UPLOAD_DIR)
 afterAll(() => t.close())
 
 const yesterday = () => new Date(Date.now() - 86_400_000).toISOString().slice(0, 10)
-const engine = (snapshot: Parameters<typeof snapshotToEngineInput>[0], decisions: Record<string, Decision>) => calculateEstimate(snapshotToEngineInput(snapshot, decisions))
+const engine = (snapshot: Parameters<typeof snapshotToEngineInput>[0], decisions: Record<string, Decision>) =>
+  calculateEstimate(snapshotToEngineInput(snapshot, decisions))
 
 /** The session cookie a response sets: a new value means a new session id. */
 function sessionCookie(res: { headers: Record<string, unknown> }): string | undefined {
@@ -47,7 +57,16 @@ describe('opening the estimate link', () => {
 
     expect((await b.get('/api/auth/me').expect(200)).body.user).toMatchObject({ kind: 'customer', id: fx.customer.id })
     const page = PortalEstimateSchema.parse((await b.get(`/api/portal/estimates/${sent.estimate.id}`).expect(200)).body)
-    expect(page).toMatchObject({ version: 1, latestVersion: 1, superseded: false, expired: false, withdrawn: false, canDecide: true, status: 'opened', hash: sent.version.hash })
+    expect(page).toMatchObject({
+      version: 1,
+      latestVersion: 1,
+      superseded: false,
+      expired: false,
+      withdrawn: false,
+      canDecide: true,
+      status: 'opened',
+      hash: sent.version.hash,
+    })
     expect(page.snapshot.items.map((i) => i.id)).toEqual(['seals', 'uj', 'bearing'])
     expect(Object.values(page.decisions)).toEqual(['pending', 'pending', 'pending'])
     expect(page.result.proposed.gross).toBe(engine(sent.snapshot, {}).proposed.gross)
@@ -92,7 +111,10 @@ describe('opening the estimate link', () => {
 
   it('refuses an expired link with 410 link_expired', async () => {
     const fx = await makeWorkshop(t.db, 'Portal Expired')
-    const sent = await sendWithLink(t.db, fx, { draft: portalDraft({ expiresOn: yesterday() }), linkExpiresAt: new Date(Date.now() - 60_000) })
+    const sent = await sendWithLink(t.db, fx, {
+      draft: portalDraft({ expiresOn: yesterday() }),
+      linkExpiresAt: new Date(Date.now() - 60_000),
+    })
     const res = await browser(t.app).post('/api/portal/open', { token: sent.token }).expect(410)
     expect(res.body.error).toMatchObject({ code: 'link_expired', details: { newerVersion: false, renewable: false } })
     expect(res.headers['referrer-policy']).toBe('no-referrer')
@@ -112,7 +134,10 @@ describe('opening the estimate link', () => {
     expect(superseded.body.error).toMatchObject({ code: 'link_superseded', details: { newerVersion: true, renewable: true } })
     await openLink(t.app, next.token)
 
-    await t.db.update(estimates).set({ withdrawnAt: sql`now()` }).where(eq(estimates.id, next.estimate.id))
+    await t.db
+      .update(estimates)
+      .set({ withdrawnAt: sql`now()` })
+      .where(eq(estimates.id, next.estimate.id))
     const withdrawn = await browser(t.app).post('/api/portal/open', { token: next.token }).expect(410)
     expect(withdrawn.body.error).toMatchObject({ code: 'link_revoked', details: { renewable: false } })
   })
@@ -184,7 +209,10 @@ describe('reading is limited to the customer’s own estimates', () => {
 
     const neighbour = await addCustomer(t.db, fx, 'Nia Neighbour')
     const away = await makeWorkshop(t.db, 'Portal Away')
-    for (const intruder of [await openLink(t.app, (await sendWithLink(t.db, neighbour)).token), await openLink(t.app, (await sendWithLink(t.db, away)).token)]) {
+    for (const intruder of [
+      await openLink(t.app, (await sendWithLink(t.db, neighbour)).token),
+      await openLink(t.app, (await sendWithLink(t.db, away)).token),
+    ]) {
       await intruder.get(base).expect(404)
       await intruder.get(`${base}/photos/${photo.id}`).expect(404)
       await intruder.get(`${base}/photos/${photo.id}/thumb`).expect(404)
@@ -192,8 +220,16 @@ describe('reading is limited to the customer’s own estimates', () => {
       await intruder.get(`${base}/deposit`).expect(404)
       await intruder.put(`${base}/decisions/uj`, { version: 1, decision: 'approved' }).expect(404)
       await intruder.post(`${base}/questions`, { itemId: 'uj', question: 'Mine?' }).expect(404)
-      await intruder.post(`${base}/confirm`, { version: 1, hash: sent.version.hash, consents: { startWithinCancellationPeriod: false, cancellationInformationShown: true } }).expect(404)
-      expect((await intruder.get('/api/portal/estimates').expect(200)).body.items.map((i: { id: string }) => i.id)).not.toContain(sent.estimate.id)
+      await intruder
+        .post(`${base}/confirm`, {
+          version: 1,
+          hash: sent.version.hash,
+          consents: { startWithinCancellationPeriod: false, cancellationInformationShown: true },
+        })
+        .expect(404)
+      expect((await intruder.get('/api/portal/estimates').expect(200)).body.items.map((i: { id: string }) => i.id)).not.toContain(
+        sent.estimate.id,
+      )
     }
     expect(await t.db.select().from(estimateDecisions).where(eq(estimateDecisions.versionId, sent.version.id))).toEqual([])
   })
@@ -206,7 +242,9 @@ describe('deciding', () => {
     const b = await openLink(t.app, sent.token)
     const base = `/api/portal/estimates/${sent.estimate.id}`
     const responses = await Promise.all(
-      Array.from({ length: 10 }, (_, i) => b.put(`${base}/decisions/${i % 2 === 0 ? 'seals' : 'uj'}`, { version: 1, decision: i % 4 < 2 ? 'approved' : 'declined' })),
+      Array.from({ length: 10 }, (_, i) =>
+        b.put(`${base}/decisions/${i % 2 === 0 ? 'seals' : 'uj'}`, { version: 1, decision: i % 4 < 2 ? 'approved' : 'declined' }),
+      ),
     )
     expect(responses.map((r) => r.status)).toEqual(Array(10).fill(200))
     // Each answer is the engine's figures for the decisions it reports.
@@ -225,7 +263,13 @@ describe('deciding', () => {
 
     await b.put(`${base}/decisions/bearing`, { version: 1, decision: 'declined' }).expect(200)
     const final = { ...page.decisions, bearing: 'declined' as const }
-    const confirmed = await b.post(`${base}/confirm`, { version: 1, hash: sent.version.hash, consents: { startWithinCancellationPeriod: false, cancellationInformationShown: true } }).expect(201)
+    const confirmed = await b
+      .post(`${base}/confirm`, {
+        version: 1,
+        hash: sent.version.hash,
+        consents: { startWithinCancellationPeriod: false, cancellationInformationShown: true },
+      })
+      .expect(201)
     const [row] = await t.db.select().from(estimateConfirmations).where(eq(estimateConfirmations.versionId, sent.version.id))
     const expected = engine(sent.snapshot, final)
     expect(row?.decisions).toEqual(final)
@@ -299,7 +343,12 @@ describe('confirming', () => {
     expect((await b.get(`${base}/deposit`).expect(200)).body).toMatchObject({ status: 'not_due', amountMinor: 0 })
 
     await b.post(`${base}/confirm`, { version: 1, hash: 'f'.repeat(64), consents }).expect(422)
-    const first = await b.agent.post(`${base}/confirm`).set('Origin', 'http://127.0.0.1:3000').set('User-Agent', 'PortalTest/1.0 (phone)').send({ version: 1, hash: sent.version.hash, consents }).expect(201)
+    const first = await b.agent
+      .post(`${base}/confirm`)
+      .set('Origin', 'http://127.0.0.1:3000')
+      .set('User-Agent', 'PortalTest/1.0 (phone)')
+      .send({ version: 1, hash: sent.version.hash, consents })
+      .expect(201)
     const expected = engine(sent.snapshot, decisions)
     expect(expected.approved.deposit).toBeGreaterThan(0)
     expect(first.body).toEqual({ confirmationId: expect.any(String), depositDue: expected.approved.deposit, next: 'pay' })
@@ -325,7 +374,10 @@ describe('confirming', () => {
     const late = await b.put(`${base}/decisions/uj`, { version: 1, decision: 'approved' }).expect(409)
     expect(late.body.error.code).toBe('confirmed')
 
-    expect((await b.get(`${base}/deposit`).expect(200)).body).toMatchObject({ status: 'awaiting_payment', amountMinor: expected.approved.deposit })
+    expect((await b.get(`${base}/deposit`).expect(200)).body).toMatchObject({
+      status: 'awaiting_payment',
+      amountMinor: expected.approved.deposit,
+    })
     const page = PortalEstimateSchema.parse((await b.get(base).expect(200)).body)
     expect(page).toMatchObject({ status: 'confirmed', canDecide: false, confirmation: { id: first.body.confirmationId } })
     // A deposit is due, so the job waits for it.
@@ -335,9 +387,14 @@ describe('confirming', () => {
     const mails = await emailsOf(sent.estimate.id)
     const toCustomer = mails.find((m) => m.kind === 'estimate.confirmed')
     expect(toCustomer?.to).toBe(fx.customer.email)
-    expect(toCustomer?.message.attachments).toEqual([{ type: 'estimate-pdf', versionId: sent.version.id, filename: `${sent.reference}-v1.pdf` }])
+    expect(toCustomer?.message.attachments).toEqual([
+      { type: 'estimate-pdf', versionId: sent.version.id, filename: `${sent.reference}-v1.pdf` },
+    ])
     expect(mails.find((m) => m.kind === 'estimate.confirmed.copy')?.to).toBe(WORKSHOP_EMAIL)
-    const audit = await t.db.select().from(auditEvents).where(and(eq(auditEvents.subjectId, sent.estimate.id), eq(auditEvents.action, 'estimate.confirmed')))
+    const audit = await t.db
+      .select()
+      .from(auditEvents)
+      .where(and(eq(auditEvents.subjectId, sent.estimate.id), eq(auditEvents.action, 'estimate.confirmed')))
     expect(audit).toHaveLength(1)
   })
 
@@ -346,7 +403,8 @@ describe('confirming', () => {
     const sent = await sendWithLink(t.db, fx)
     const b = await openLink(t.app, sent.token)
     const base = `/api/portal/estimates/${sent.estimate.id}`
-    for (const item of ['uj', 'bearing', 'seals']) await b.put(`${base}/decisions/${item}`, { version: 1, decision: 'declined' }).expect(200)
+    for (const item of ['uj', 'bearing', 'seals'])
+      await b.put(`${base}/decisions/${item}`, { version: 1, decision: 'declined' }).expect(200)
     const res = await b.post(`${base}/confirm`, { version: 1, hash: sent.version.hash, consents }).expect(201)
     expect(res.body).toMatchObject({ depositDue: 0, next: 'done' })
     const [row] = await t.db.select().from(estimateConfirmations).where(eq(estimateConfirmations.versionId, sent.version.id))
@@ -357,8 +415,16 @@ describe('confirming', () => {
     const free = await sendWithLink(t.db, other, { draft: portalDraft({ deposit: { kind: 'none' } }) })
     const c = await openLink(t.app, free.token)
     const freeBase = `/api/portal/estimates/${free.estimate.id}`
-    for (const [item, decision] of [['uj', 'approved'], ['seals', 'declined'], ['bearing', 'declined']]) await c.put(`${freeBase}/decisions/${item}`, { version: 1, decision }).expect(200)
-    expect((await c.post(`${freeBase}/confirm`, { version: 1, hash: free.version.hash, consents }).expect(201)).body).toMatchObject({ depositDue: 0, next: 'done' })
+    for (const [item, decision] of [
+      ['uj', 'approved'],
+      ['seals', 'declined'],
+      ['bearing', 'declined'],
+    ])
+      await c.put(`${freeBase}/decisions/${item}`, { version: 1, decision }).expect(200)
+    expect((await c.post(`${freeBase}/confirm`, { version: 1, hash: free.version.hash, consents }).expect(201)).body).toMatchObject({
+      depositDue: 0,
+      next: 'done',
+    })
     const [job] = await t.db.select({ status: jobs.status }).from(jobs).where(eq(jobs.id, other.job.id))
     expect(job?.status).toBe('in_work')
   })
@@ -369,12 +435,16 @@ describe('confirming', () => {
     const b = await openLink(t.app, sent.token)
     const base = `/api/portal/estimates/${sent.estimate.id}`
     await b.post(`${base}/deposit/checkout`).expect(409)
-    for (const item of ['seals', 'uj', 'bearing']) await b.put(`${base}/decisions/${item}`, { version: 1, decision: 'approved' }).expect(200)
+    for (const item of ['seals', 'uj', 'bearing'])
+      await b.put(`${base}/decisions/${item}`, { version: 1, decision: 'approved' }).expect(200)
     await b.post(`${base}/confirm`, { version: 1, hash: sent.version.hash, consents }).expect(201)
     const res = await b.post(`${base}/deposit/checkout`).expect(200)
     expect(res.body.url).toMatch(/^https?:\/\//)
     const deposit = (await b.get(`${base}/deposit`).expect(200)).body
-    expect(deposit).toMatchObject({ status: 'awaiting_payment', amountMinor: engine(sent.snapshot, { seals: 'approved', uj: 'approved', bearing: 'approved' }).approved.deposit })
+    expect(deposit).toMatchObject({
+      status: 'awaiting_payment',
+      amountMinor: engine(sent.snapshot, { seals: 'approved', uj: 'approved', bearing: 'approved' }).approved.deposit,
+    })
   })
 })
 
@@ -383,15 +453,23 @@ describe('questions', () => {
     const fx = await makeWorkshop(t.db, 'Portal Questions')
     const sent = await sendWithLink(t.db, fx)
     const b = await openLink(t.app, sent.token)
-    const asked = await b.post(`/api/portal/estimates/${sent.estimate.id}/questions`, { itemId: 'uj', question: 'Can this wait until next month?' }).expect(201)
+    const asked = await b
+      .post(`/api/portal/estimates/${sent.estimate.id}/questions`, { itemId: 'uj', question: 'Can this wait until next month?' })
+      .expect(201)
     expect(asked.body).toMatchObject({ itemId: 'uj', version: 1, answer: null })
     await b.post(`/api/portal/estimates/${sent.estimate.id}/questions`, { itemId: 'nope', question: 'Which?' }).expect(404)
     expect((await emailsOf(sent.estimate.id)).find((m) => m.kind === 'estimate.question')?.to).toBe(WORKSHOP_EMAIL)
 
     const advisor = await signIn(t.app, fx.advisor.email)
     const list = (await advisor.get(`/api/estimates/${sent.estimate.id}/questions`).expect(200)).body.items
-    expect(list).toEqual([expect.objectContaining({ id: asked.body.id, itemNumber: 2, itemTitle: 'Front prop shaft UJ', customerName: fx.customer.name })])
-    const answered = await advisor.post(`/api/estimates/${sent.estimate.id}/questions/${asked.body.id}/answer`, { answer: 'Not safely: the joint is close to failing.' }).expect(200)
+    expect(list).toEqual([
+      expect.objectContaining({ id: asked.body.id, itemNumber: 2, itemTitle: 'Front prop shaft UJ', customerName: fx.customer.name }),
+    ])
+    const answered = await advisor
+      .post(`/api/estimates/${sent.estimate.id}/questions/${asked.body.id}/answer`, {
+        answer: 'Not safely: the joint is close to failing.',
+      })
+      .expect(200)
     expect(answered.body).toMatchObject({ answer: 'Not safely: the joint is close to failing.', answeredBy: { id: fx.advisor.id } })
 
     const reply = (await emailsOf(sent.estimate.id)).find((m) => m.kind === 'estimate.question_answered')
@@ -413,7 +491,15 @@ describe('the app shell for the link page', () => {
   it('sends no referrer with the page that carries the token', async () => {
     const dist = fs.mkdtempSync(path.join(os.tmpdir(), 'tickover-shell-'))
     fs.writeFileSync(path.join(dist, 'index.html'), '<!doctype html><title>Tickover</title>')
-    const app = createApp({ env: { ...t.env, CLIENT_DIST: dist }, db: t.db, pool: t.pool, logger: pino({ level: 'silent' }), version: 'test', liveHub: t.liveHub, outbox: t.outbox })
+    const app = createApp({
+      env: { ...t.env, CLIENT_DIST: dist },
+      db: t.db,
+      pool: t.pool,
+      logger: pino({ level: 'silent' }),
+      version: 'test',
+      liveHub: t.liveHub,
+      outbox: t.outbox,
+    })
     const res = await request(app).get('/portal/open?token=abc').expect(200)
     expect(res.headers['content-type']).toMatch(/text\/html/)
     expect(res.headers['referrer-policy']).toBe('no-referrer')

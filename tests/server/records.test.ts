@@ -61,14 +61,21 @@ describe('customers', () => {
     expect(read.body).toEqual(created.body)
 
     const updated = await advisor
-      .put(`/api/customers/${created.body.id}`, { name: 'Wynn Ashgrove-Pell', phone: '07700 900102', contactByEmail: false, contactByPhone: true })
+      .put(`/api/customers/${created.body.id}`, {
+        name: 'Wynn Ashgrove-Pell',
+        phone: '07700 900102',
+        contactByEmail: false,
+        contactByPhone: true,
+      })
       .expect(200)
     expect(updated.body).toMatchObject({ name: 'Wynn Ashgrove-Pell', phone: '07700 900102', contactByPhone: true, contactBySms: false })
   })
 
   it('replaces the whole record on update, clearing optional fields left out', async () => {
     const { f, advisor } = await advisorOf()
-    const res = await advisor.put(`/api/customers/${f.customer.id}`, { name: 'Carys Customer', phone: '07700 900200', contactByEmail: false }).expect(200)
+    const res = await advisor
+      .put(`/api/customers/${f.customer.id}`, { name: 'Carys Customer', phone: '07700 900200', contactByEmail: false })
+      .expect(200)
     expect(res.body).toMatchObject({ email: null, phone: '07700 900200', postcode: null, addressLines: [] })
   })
 
@@ -128,7 +135,9 @@ describe('customers', () => {
 
   it('will not contact by e-mail without an e-mail address, nor by phone without a number', async () => {
     const { advisor } = await advisorOf()
-    const byEmail = await advisor.post('/api/customers', { name: 'Phone-only Phil', phone: '07700 900700', contactByEmail: true }).expect(422)
+    const byEmail = await advisor
+      .post('/api/customers', { name: 'Phone-only Phil', phone: '07700 900700', contactByEmail: true })
+      .expect(422)
     expect(issuesOf(byEmail.body)).toEqual({ 'body.contactByEmail': ['Add an e-mail address to contact them by e-mail'] })
     const bySms = await advisor.post('/api/customers', { name: 'Mail-only Mo', email: 'mo@fixture.test', contactBySms: true }).expect(422)
     expect(issuesOf(bySms.body)).toEqual({ 'body.phone': ['Add a phone number to contact them by phone or text'] })
@@ -166,12 +175,21 @@ describe('customers', () => {
 })
 
 describe('vehicles', () => {
-  const vehicle = (customerId: string, extra: object = {}) => ({ customerId, registration: 'bf21 nmx', make: 'Corrin', model: 'Stag 90', ...extra })
+  const vehicle = (customerId: string, extra: object = {}) => ({
+    customerId,
+    registration: 'bf21 nmx',
+    make: 'Corrin',
+    model: 'Stag 90',
+    ...extra,
+  })
 
   it('creates, reads and updates a vehicle, upper-casing the plate and VIN', async () => {
     const { f, advisor } = await advisorOf()
     const created = await advisor
-      .post('/api/vehicles', vehicle(f.customer.id, { vin: ' skf4x4dem10000017 ', year: 2012, odometer: 120500, vehicleGroup: 'coil-sprung-live-axle' }))
+      .post(
+        '/api/vehicles',
+        vehicle(f.customer.id, { vin: ' skf4x4dem10000017 ', year: 2012, odometer: 120500, vehicleGroup: 'coil-sprung-live-axle' }),
+      )
       .expect(201)
     expect(created.body).toMatchObject({
       customerId: f.customer.id,
@@ -185,7 +203,9 @@ describe('vehicles', () => {
     })
     expect((await advisor.get(`/api/vehicles/${created.body.id}`).expect(200)).body).toEqual(created.body)
 
-    const updated = await advisor.put(`/api/vehicles/${created.body.id}`, vehicle(f.customer.id, { odometer: 121000, odometerUnit: 'km' })).expect(200)
+    const updated = await advisor
+      .put(`/api/vehicles/${created.body.id}`, vehicle(f.customer.id, { odometer: 121000, odometerUnit: 'km' }))
+      .expect(200)
     // Left out of the PUT, so cleared: PUT replaces the record.
     expect(updated.body).toMatchObject({ odometer: 121000, odometerUnit: 'km', vin: null, year: null, vehicleGroup: null })
   })
@@ -204,9 +224,26 @@ describe('vehicles', () => {
 
   it('names each bad field', async () => {
     const { advisor } = await advisorOf()
-    const res = await advisor.post('/api/vehicles', { customerId: 'nobody', registration: '', make: '', model: 'Stag', year: 1800, odometer: -5, vin: 'SKF4X4DEM1000-017' }).expect(422)
+    const res = await advisor
+      .post('/api/vehicles', {
+        customerId: 'nobody',
+        registration: '',
+        make: '',
+        model: 'Stag',
+        year: 1800,
+        odometer: -5,
+        vin: 'SKF4X4DEM1000-017',
+      })
+      .expect(422)
     const issues = issuesOf(res.body)
-    expect(Object.keys(issues).sort()).toEqual(['body.customerId', 'body.make', 'body.odometer', 'body.registration', 'body.vin', 'body.year'])
+    expect(Object.keys(issues).sort()).toEqual([
+      'body.customerId',
+      'body.make',
+      'body.odometer',
+      'body.registration',
+      'body.vin',
+      'body.year',
+    ])
     expect(issues['body.vin']).toEqual(['A VIN has only letters and digits'])
   })
 
@@ -239,7 +276,12 @@ describe('vehicles', () => {
 
   it('finds a vehicle by its plate typed with or without the space, VIN, make, model or keeper', async () => {
     const { f, advisor } = await advisorOf()
-    await advisor.post('/api/vehicles', vehicle(f.customer.id, { registration: 'BF19 KRT', vin: 'SKF4X4DEM10000017', make: 'Ridgeback', model: 'Fellrunner' })).expect(201)
+    await advisor
+      .post(
+        '/api/vehicles',
+        vehicle(f.customer.id, { registration: 'BF19 KRT', vin: 'SKF4X4DEM10000017', make: 'Ridgeback', model: 'Fellrunner' }),
+      )
+      .expect(201)
     for (const q of ['bf19krt', 'BF19 KRT', '19 k', 'DEM1000', 'ridgeback', 'fellrun']) {
       const res = await advisor.get(`/api/vehicles?q=${encodeURIComponent(q)}`).expect(200)
       expect(plates(res.body.items), q).toEqual(['BF19 KRT'])
@@ -278,7 +320,13 @@ describe('jobs', () => {
   it('opens, reads and updates a job with the vehicle, keeper and technician named', async () => {
     const { f, advisor } = await advisorOf()
     const created = await advisor
-      .post('/api/jobs', { vehicleId: f.vehicle.id, concern: '  Loss of drive after crossing a ford ', technicianId: f.technician.id, bookedFor: '2026-03-02', promisedFor: '2026-03-04' })
+      .post('/api/jobs', {
+        vehicleId: f.vehicle.id,
+        concern: '  Loss of drive after crossing a ford ',
+        technicianId: f.technician.id,
+        bookedFor: '2026-03-02',
+        promisedFor: '2026-03-04',
+      })
       .expect(201)
     expect(created.body).toMatchObject({
       vehicleId: f.vehicle.id,
@@ -295,21 +343,33 @@ describe('jobs', () => {
     expect((await advisor.get(`/api/jobs/${created.body.id}`).expect(200)).body).toEqual(created.body)
 
     const updated = await advisor
-      .put(`/api/jobs/${created.body.id}`, { vehicleId: f.vehicle.id, concern: 'Loss of drive after crossing a ford', status: 'inspecting', technicianId: f.technician.id, bookedFor: '2026-03-02' })
+      .put(`/api/jobs/${created.body.id}`, {
+        vehicleId: f.vehicle.id,
+        concern: 'Loss of drive after crossing a ford',
+        status: 'inspecting',
+        technicianId: f.technician.id,
+        bookedFor: '2026-03-02',
+      })
       .expect(200)
     expect(updated.body).toMatchObject({ status: 'inspecting', promisedFor: null })
   })
 
   it('clears the dates and technician a PUT leaves out, so a new promised date is checked against the new booking only', async () => {
     const { f, advisor } = await advisorOf()
-    const created = await advisor.post('/api/jobs', { vehicleId: f.vehicle.id, concern: 'Judder on take-up', technicianId: f.technician.id, bookedFor: '2026-05-10' }).expect(201)
-    const res = await advisor.put(`/api/jobs/${created.body.id}`, { vehicleId: f.vehicle.id, concern: 'Judder on take-up', promisedFor: '2026-05-01' }).expect(200)
+    const created = await advisor
+      .post('/api/jobs', { vehicleId: f.vehicle.id, concern: 'Judder on take-up', technicianId: f.technician.id, bookedFor: '2026-05-10' })
+      .expect(201)
+    const res = await advisor
+      .put(`/api/jobs/${created.body.id}`, { vehicleId: f.vehicle.id, concern: 'Judder on take-up', promisedFor: '2026-05-01' })
+      .expect(200)
     expect(res.body).toMatchObject({ bookedFor: null, promisedFor: '2026-05-01', technicianId: null, technicianName: null })
   })
 
   it('names each bad field', async () => {
     const { f, advisor } = await advisorOf()
-    const res = await advisor.post('/api/jobs', { vehicleId: f.vehicle.id, concern: '   ', status: 'sleeping', bookedFor: '02/03/2026' }).expect(422)
+    const res = await advisor
+      .post('/api/jobs', { vehicleId: f.vehicle.id, concern: '   ', status: 'sleeping', bookedFor: '02/03/2026' })
+      .expect(422)
     const issues = issuesOf(res.body)
     expect(Object.keys(issues).sort()).toEqual(['body.bookedFor', 'body.concern', 'body.status'])
     expect(issues['body.concern']).toEqual(['Write down the customer’s concern in their words'])
@@ -319,19 +379,25 @@ describe('jobs', () => {
 
   it('refuses a promised date before the booking', async () => {
     const { f, advisor } = await advisorOf()
-    const res = await advisor.post('/api/jobs', { vehicleId: f.vehicle.id, concern: 'Clonk over bumps', bookedFor: '2026-04-10', promisedFor: '2026-04-09' }).expect(422)
+    const res = await advisor
+      .post('/api/jobs', { vehicleId: f.vehicle.id, concern: 'Clonk over bumps', bookedFor: '2026-04-10', promisedFor: '2026-04-09' })
+      .expect(422)
     expect(issuesOf(res.body)).toEqual({ 'body.promisedFor': ['The promised date cannot be before the booking date'] })
   })
 
   it('takes only a vehicle and technician of the same workshop', async () => {
     const { f, advisor } = await advisorOf()
     const other = await makeWorkshop(t.db, 'Elsewhere')
-    const res = await advisor.post('/api/jobs', { vehicleId: other.vehicle.id, concern: 'Whine at speed', technicianId: other.technician.id }).expect(422)
+    const res = await advisor
+      .post('/api/jobs', { vehicleId: other.vehicle.id, concern: 'Whine at speed', technicianId: other.technician.id })
+      .expect(422)
     expect(issuesOf(res.body)).toEqual({
       'body.vehicleId': ['Choose a vehicle of this workshop'],
       'body.technicianId': ['Choose an active member of this workshop'],
     })
-    const put = await advisor.put(`/api/jobs/${f.job.id}`, { vehicleId: f.vehicle.id, concern: 'Whine at speed', technicianId: other.technician.id }).expect(422)
+    const put = await advisor
+      .put(`/api/jobs/${f.job.id}`, { vehicleId: f.vehicle.id, concern: 'Whine at speed', technicianId: other.technician.id })
+      .expect(422)
     expect(Object.keys(issuesOf(put.body))).toEqual(['body.technicianId'])
   })
 
@@ -349,9 +415,20 @@ describe('jobs', () => {
 
   it('lists jobs newest first, filtered, searched and sorted', async () => {
     const { f, advisor } = await advisorOf()
-    const second = await advisor.post('/api/vehicles', { customerId: f.customer.id, registration: 'BF19 KRT', make: 'Ridgeback', model: 'Fellrunner' }).expect(201)
-    const vibration = await advisor.post('/api/jobs', { vehicleId: second.body.id, concern: 'Vibration above 50 mph', status: 'quoting', bookedFor: '2026-06-01' }).expect(201)
-    const oil = await advisor.post('/api/jobs', { vehicleId: f.vehicle.id, concern: 'Oil inside the front wheels', technicianId: f.technician.id, bookedFor: '2026-05-01' }).expect(201)
+    const second = await advisor
+      .post('/api/vehicles', { customerId: f.customer.id, registration: 'BF19 KRT', make: 'Ridgeback', model: 'Fellrunner' })
+      .expect(201)
+    const vibration = await advisor
+      .post('/api/jobs', { vehicleId: second.body.id, concern: 'Vibration above 50 mph', status: 'quoting', bookedFor: '2026-06-01' })
+      .expect(201)
+    const oil = await advisor
+      .post('/api/jobs', {
+        vehicleId: f.vehicle.id,
+        concern: 'Oil inside the front wheels',
+        technicianId: f.technician.id,
+        bookedFor: '2026-05-01',
+      })
+      .expect(201)
     const ids = (res: { body: { items: { id: string }[] } }) => res.body.items.map((j) => j.id)
 
     const all = await advisor.get('/api/jobs').expect(200)
@@ -441,8 +518,14 @@ describe('tenancy', () => {
     }
 
     const owner = await signIn(t.app, home.owner.email)
-    expect((await owner.get(`/api/customers/${home.customer.id}`).expect(200)).body).toMatchObject({ name: 'Carys Customer', archived: false })
-    expect((await owner.get(`/api/vehicles/${home.vehicle.id}`).expect(200)).body).toMatchObject({ registration: home.vehicle.registration, archived: false })
+    expect((await owner.get(`/api/customers/${home.customer.id}`).expect(200)).body).toMatchObject({
+      name: 'Carys Customer',
+      archived: false,
+    })
+    expect((await owner.get(`/api/vehicles/${home.vehicle.id}`).expect(200)).body).toMatchObject({
+      registration: home.vehicle.registration,
+      archived: false,
+    })
     expect((await owner.get(`/api/jobs/${home.job.id}`).expect(200)).body.concern).toBe('Knock on take-up of drive')
   })
 

@@ -75,7 +75,13 @@ describe('workshop settings', () => {
     const owner = await signIn(t.app, f.owner.email)
     const current = (await owner.get('/api/workshop').expect(200)).body
     const res = await owner
-      .put('/api/workshop', { ...current, id: undefined, phone: '01632 960999', vatNumber: 'GB123456789', addressLines: ['1 Test Row', 'Testbury'] })
+      .put('/api/workshop', {
+        ...current,
+        id: undefined,
+        phone: '01632 960999',
+        vatNumber: 'GB123456789',
+        addressLines: ['1 Test Row', 'Testbury'],
+      })
       .expect(200)
     expect(res.body).toMatchObject({ phone: '01632 960999', vatNumber: 'GB123456789' })
     const log = await owner.get('/api/audit-events?action=settings.changed').expect(200)

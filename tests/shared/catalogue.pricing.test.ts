@@ -90,7 +90,11 @@ describe('markup bands', () => {
 
   it('marks the cost up by its band otherwise, saying which', () => {
     // 10000 × 1.3
-    expect(sellPrice({ costMinor: 10000, sellPriceMinor: null }, bands, 'GBP')).toEqual({ amountMinor: 13000, source: 'markup', markupPercent: '30' })
+    expect(sellPrice({ costMinor: 10000, sellPriceMinor: null }, bands, 'GBP')).toEqual({
+      amountMinor: 13000,
+      source: 'markup',
+      markupPercent: '30',
+    })
   })
 
   it('has no price when no band covers the cost', () => {

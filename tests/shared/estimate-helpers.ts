@@ -1,5 +1,5 @@
 /** Small builders so test tables read like estimates rather than JSON. */
-import type { EstimateInput, EstimateItem, EstimateLine } from '../../shared/schemas/estimate'
+import type { EstimateInput, EstimateItem, EstimateLine } from '../../shared/estimate/contract'
 
 export function labour(hours: string, rate: number, taxRate = '20', accessSteps: string[] = [], description = 'Labour'): EstimateLine {
   return { kind: 'labour', description, hours, rate, taxRate, accessSteps }
@@ -13,7 +13,13 @@ export function fee(amount: number, taxRate = '20', description = 'Fee'): Estima
   return { kind: 'fee', description, amount, taxRate }
 }
 
-export function item(id: string, decision: EstimateItem['decision'], lines: EstimateLine[], requires: string[] = [], title = `Item ${id}`): EstimateItem {
+export function item(
+  id: string,
+  decision: EstimateItem['decision'],
+  lines: EstimateLine[],
+  requires: string[] = [],
+  title = `Item ${id}`,
+): EstimateItem {
   return { id, title, decision, requires, lines }
 }
 

@@ -100,7 +100,9 @@ describe('JPY end to end (no minor digits)', () => {
 
   it('takes tax out of yen prices that include it', () => {
     // ¥8,800 an hour including 10% × 1.35 h = ¥11,880, of which 11,880 × 10/110 = ¥1,080 is tax.
-    const result = calculateEstimate(estimate({ currency: 'JPY', taxMode: 'inclusive', items: [item('a', 'approved', [labour('1.35', 8800, '10')])] }))
+    const result = calculateEstimate(
+      estimate({ currency: 'JPY', taxMode: 'inclusive', items: [item('a', 'approved', [labour('1.35', 8800, '10')])] }),
+    )
     expect(result.approved).toMatchObject({ gross: 11880, tax: 1080, net: 10800 })
   })
 })

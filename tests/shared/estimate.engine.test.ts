@@ -4,7 +4,7 @@
  */
 import { describe, expect, it } from 'vitest'
 import { calculateEstimate, EstimateInputError, safeCalculateEstimate } from '../../shared/estimate'
-import { EstimateInputSchema, EstimateResultSchema, type EstimateInput, type EstimateItem } from '../../shared/schemas/estimate'
+import { EstimateInputSchema, EstimateResultSchema, type EstimateInput, type EstimateItem } from '../../shared/estimate/contract'
 import { estimate, fee, item, labour, part } from './estimate-helpers'
 
 // Invented demo numbers: front-left access on a live-axle 4x4. Own hours only; the hub strip
@@ -16,9 +16,21 @@ const frontLeftSteps: EstimateInput['accessSteps'] = [
 ]
 
 const cvJoint = (decision: EstimateItem['decision']) =>
-  item('cv-fl', decision, [labour('3.2', 8500, '20', ['hub-strip-fl'], 'Replace outer CV joint'), part('1', 14999, '20', 'CV joint kit')], [], 'Replace front left CV joint')
+  item(
+    'cv-fl',
+    decision,
+    [labour('3.2', 8500, '20', ['hub-strip-fl'], 'Replace outer CV joint'), part('1', 14999, '20', 'CV joint kit')],
+    [],
+    'Replace front left CV joint',
+  )
 const swivel = (decision: EstimateItem['decision']) =>
-  item('swivel-fl', decision, [labour('2.6', 8500, '20', ['hub-strip-fl'], 'Reseal swivel housing'), part('1', 3250, '20', 'Swivel seal kit')], [], 'Reseal front left swivel housing')
+  item(
+    'swivel-fl',
+    decision,
+    [labour('2.6', 8500, '20', ['hub-strip-fl'], 'Reseal swivel housing'), part('1', 3250, '20', 'Swivel seal kit')],
+    [],
+    'Reseal front left swivel housing',
+  )
 
 describe('shared access: CV joint and swivel housing reseal on the same side', () => {
   // CV joint labour: 3.2 h × £85 = £272.00. Swivel labour: 2.6 h × £85 = £221.00 on its own;
@@ -33,17 +45,20 @@ describe('shared access: CV joint and swivel housing reseal on the same side', (
     { cv: 'approved', swivel: 'declined', swivelAmount: 9350, swivelShared: '1.5', swivelSaving: 12750, approvedLabour: 27200 },
     { cv: 'pending', swivel: 'pending', swivelAmount: 22100, swivelShared: '0', swivelSaving: 0, approvedLabour: 0 },
     { cv: 'declined', swivel: 'declined', swivelAmount: 22100, swivelShared: '0', swivelSaving: 0, approvedLabour: 0 },
-  ] as const)('CV joint $cv, swivel $swivel', ({ cv, swivel: swivelDecision, swivelAmount, swivelShared, swivelSaving, approvedLabour }) => {
-    const result = calculateEstimate(estimate({ accessSteps: frontLeftSteps, items: [cvJoint(cv), swivel(swivelDecision)] }))
-    const [cvItem, swivelItem] = result.items
-    expect(cvItem!.lines[0]).toMatchObject({ amount: 27200, sharedHours: '0', sharedSaving: 0, note: null })
-    expect(swivelItem!.lines[0]).toMatchObject({ amount: swivelAmount, sharedHours: swivelShared, sharedSaving: swivelSaving })
-    expect(swivelItem!.sharedSaving).toBe(swivelSaving)
-    expect(result.approved.labour).toBe(approvedLabour)
-    // Everything approved: the CV joint pays for the hub once.
-    expect(result.proposed.labour).toBe(27200 + 9350)
-    expect(result.proposed.sharedSaving).toBe(12750)
-  })
+  ] as const)(
+    'CV joint $cv, swivel $swivel',
+    ({ cv, swivel: swivelDecision, swivelAmount, swivelShared, swivelSaving, approvedLabour }) => {
+      const result = calculateEstimate(estimate({ accessSteps: frontLeftSteps, items: [cvJoint(cv), swivel(swivelDecision)] }))
+      const [cvItem, swivelItem] = result.items
+      expect(cvItem!.lines[0]).toMatchObject({ amount: 27200, sharedHours: '0', sharedSaving: 0, note: null })
+      expect(swivelItem!.lines[0]).toMatchObject({ amount: swivelAmount, sharedHours: swivelShared, sharedSaving: swivelSaving })
+      expect(swivelItem!.sharedSaving).toBe(swivelSaving)
+      expect(result.approved.labour).toBe(approvedLabour)
+      // Everything approved: the CV joint pays for the hub once.
+      expect(result.proposed.labour).toBe(27200 + 9350)
+      expect(result.proposed.sharedSaving).toBe(12750)
+    },
+  )
 
   it('says which steps were already done and for which item', () => {
     const result = calculateEstimate(estimate({ accessSteps: frontLeftSteps, items: [cvJoint('approved'), swivel('approved')] }))
@@ -53,7 +68,9 @@ describe('shared access: CV joint and swivel housing reseal on the same side', (
       ['caliper-off-fl', '0.3', 'cv-fl', 1, 0],
       ['wheel-off-fl', '0.2', 'cv-fl', 1, 0],
     ])
-    expect(line.note).toBe('front left hub off, front left caliper off, front left wheel off already done for item 1 (Replace front left CV joint)')
+    expect(line.note).toBe(
+      'front left hub off, front left caliper off, front left wheel off already done for item 1 (Replace front left CV joint)',
+    )
   })
 
   it('shows the saving on the later item whichever job comes first', () => {
@@ -88,7 +105,10 @@ describe('shared access: CV joint and swivel housing reseal on the same side', (
     const result = calculateEstimate(
       estimate({
         accessSteps: steps,
-        items: [item('a', 'approved', [labour('0.5', 8550, '20', ['guard-off'])]), item('b', 'approved', [labour('1.30', 8550, '20', ['guard-off'])])],
+        items: [
+          item('a', 'approved', [labour('0.5', 8550, '20', ['guard-off'])]),
+          item('b', 'approved', [labour('1.30', 8550, '20', ['guard-off'])]),
+        ],
       }),
     )
     expect(result.items[1]!.lines[0]).toMatchObject({ amount: 10175, sharedHours: '0.11', sharedSaving: 940 })
@@ -101,7 +121,10 @@ describe('shared access: CV joint and swivel housing reseal on the same side', (
     const byRate = calculateEstimate(
       estimate({
         accessSteps: steps,
-        items: [item('cheap', 'pending', [labour('1', 5000, '20', ['hub'])]), item('dear', 'approved', [labour('1', 10000, '20', ['hub'])])],
+        items: [
+          item('cheap', 'pending', [labour('1', 5000, '20', ['hub'])]),
+          item('dear', 'approved', [labour('1', 10000, '20', ['hub'])]),
+        ],
       }),
     )
     expect(byRate.approved.subtotal).toBe(10000)
@@ -133,7 +156,9 @@ describe('line prices', () => {
   })
 
   it('treats "20" and "20.00" as one tax rate', () => {
-    const result = calculateEstimate(estimate({ items: [item('a', 'approved', [fee(1000, '20'), fee(1000, '20.00'), fee(500, '5.50'), fee(500, '5.5')])] }))
+    const result = calculateEstimate(
+      estimate({ items: [item('a', 'approved', [fee(1000, '20'), fee(1000, '20.00'), fee(500, '5.50'), fee(500, '5.5')])] }),
+    )
     expect(result.approved.taxByRate).toEqual([
       { rate: '5.5', net: 1000, tax: 56, gross: 1056 },
       { rate: '20', net: 2000, tax: 400, gross: 2400 },
@@ -192,7 +217,10 @@ describe('estimate-level discount', () => {
 
   it('is worked out separately for each scope', () => {
     const result = calculateEstimate(
-      estimate({ items: [item('a', 'approved', [fee(10000, '0')]), item('b', 'pending', [fee(5000, '0')])], discount: { kind: 'percent', value: '10' } }),
+      estimate({
+        items: [item('a', 'approved', [fee(10000, '0')]), item('b', 'pending', [fee(5000, '0')])],
+        discount: { kind: 'percent', value: '10' },
+      }),
     )
     expect(result.approved.discount).toBe(1000)
     expect(result.proposed.discount).toBe(1500)
@@ -203,7 +231,12 @@ describe('deposit', () => {
   /** One zero-rated fee, so the gross is exactly `gross`. */
   const depositFor = (currency: string, gross: number, deposit: EstimateInput['deposit'], minimumCharge?: number) =>
     calculateEstimate(
-      estimate({ currency, items: [item('a', 'approved', [fee(gross, '0')])], deposit, ...(minimumCharge === undefined ? {} : { minimumCharge }) }),
+      estimate({
+        currency,
+        items: [item('a', 'approved', [fee(gross, '0')])],
+        deposit,
+        ...(minimumCharge === undefined ? {} : { minimumCharge }),
+      }),
     ).approved
 
   // Card minimums: Stripe's published minimum charge amounts (GBP 0.30, USD 0.50, EUR 0.50), from memory of that page, not read here.
@@ -275,9 +308,23 @@ describe('input errors', () => {
       path: ['accessSteps', 2, 'includes', 0],
       message: /loop: caliper-off-fl → hub-strip-fl → caliper-off-fl/,
     },
-    { name: 'a step that includes itself', change: (e) => e.accessSteps[0]!.includes.push('wheel-off-fl'), path: ['accessSteps', 0, 'includes', 0], message: /loop/ },
-    { name: 'an unknown included step', change: (e) => e.accessSteps[0]!.includes.push('tyre-off'), path: ['accessSteps', 0, 'includes', 0], message: /unknown step "tyre-off"/ },
-    { name: 'a step listed twice', change: (e) => e.accessSteps.push({ code: 'wheel-off-fl', hours: '0.1', includes: [] }), path: ['accessSteps', 3, 'code'] },
+    {
+      name: 'a step that includes itself',
+      change: (e) => e.accessSteps[0]!.includes.push('wheel-off-fl'),
+      path: ['accessSteps', 0, 'includes', 0],
+      message: /loop/,
+    },
+    {
+      name: 'an unknown included step',
+      change: (e) => e.accessSteps[0]!.includes.push('tyre-off'),
+      path: ['accessSteps', 0, 'includes', 0],
+      message: /unknown step "tyre-off"/,
+    },
+    {
+      name: 'a step listed twice',
+      change: (e) => e.accessSteps.push({ code: 'wheel-off-fl', hours: '0.1', includes: [] }),
+      path: ['accessSteps', 3, 'code'],
+    },
     {
       name: 'an unknown step on a labour line',
       change: (e) => (e.items[1]!.lines[0] as { accessSteps: string[] }).accessSteps.push('hub-strip-fr'),
@@ -297,7 +344,8 @@ describe('input errors', () => {
         e.items[1]!.requires.push('cv-fl')
       },
       path: ['items', 1, 'requires', 0],
-      message: /item 2 "Reseal front left swivel housing" \(swivel-fl\) is approved but requires item 1 "Replace front left CV joint" \(cv-fl\), which is declined/,
+      message:
+        /item 2 "Reseal front left swivel housing" \(swivel-fl\) is approved but requires item 1 "Replace front left CV joint" \(cv-fl\), which is declined/,
     },
     {
       name: 'an approved item requiring a pending one',
@@ -308,27 +356,84 @@ describe('input errors', () => {
       path: ['items', 1, 'requires', 0],
       message: /swivel-fl.*cv-fl.*which is pending/,
     },
-    { name: 'a requirement on an unknown item', change: (e) => e.items[1]!.requires.push('cv-fr'), path: ['items', 1, 'requires', 0], message: /unknown item "cv-fr"/ },
-    { name: 'an item requiring itself', change: (e) => e.items[1]!.requires.push('swivel-fl'), path: ['items', 1, 'requires', 0], message: /cannot require itself/ },
+    {
+      name: 'a requirement on an unknown item',
+      change: (e) => e.items[1]!.requires.push('cv-fr'),
+      path: ['items', 1, 'requires', 0],
+      message: /unknown item "cv-fr"/,
+    },
+    {
+      name: 'an item requiring itself',
+      change: (e) => e.items[1]!.requires.push('swivel-fl'),
+      path: ['items', 1, 'requires', 0],
+      message: /cannot require itself/,
+    },
     { name: 'an item id used twice', change: (e) => (e.items[1]!.id = 'cv-fl'), path: ['items', 1, 'id'] },
-    { name: 'hours with a comma', change: (e) => ((e.items[0]!.lines[0] as { hours: string }).hours = '3,2'), path: ['items', 0, 'lines', 0, 'hours'], message: /decimal string/ },
-    { name: 'hours with three places', change: (e) => ((e.items[0]!.lines[0] as { hours: string }).hours = '3.205'), path: ['items', 0, 'lines', 0, 'hours'] },
-    { name: 'hours as a number', change: (e) => ((e.items[0]!.lines[0] as unknown as { hours: number }).hours = 3.2), path: ['items', 0, 'lines', 0, 'hours'] },
-    { name: 'hours in exponent form', change: (e) => ((e.items[0]!.lines[0] as { hours: string }).hours = '3e1'), path: ['items', 0, 'lines', 0, 'hours'] },
-    { name: 'hours above the limit', change: (e) => ((e.items[0]!.lines[0] as { hours: string }).hours = '10000.01'), path: ['items', 0, 'lines', 0, 'hours'], message: /at most 10000/ },
-    { name: 'a negative quantity', change: (e) => ((e.items[0]!.lines[1] as { quantity: string }).quantity = '-1'), path: ['items', 0, 'lines', 1, 'quantity'] },
-    { name: 'a tax rate with a percent sign', change: (e) => (e.items[0]!.lines[1]!.taxRate = '20%'), path: ['items', 0, 'lines', 1, 'taxRate'] },
-    { name: 'a tax rate above 100', change: (e) => (e.items[0]!.lines[1]!.taxRate = '120'), path: ['items', 0, 'lines', 1, 'taxRate'], message: /at most 100/ },
+    {
+      name: 'hours with a comma',
+      change: (e) => ((e.items[0]!.lines[0] as { hours: string }).hours = '3,2'),
+      path: ['items', 0, 'lines', 0, 'hours'],
+      message: /decimal string/,
+    },
+    {
+      name: 'hours with three places',
+      change: (e) => ((e.items[0]!.lines[0] as { hours: string }).hours = '3.205'),
+      path: ['items', 0, 'lines', 0, 'hours'],
+    },
+    {
+      name: 'hours as a number',
+      change: (e) => ((e.items[0]!.lines[0] as unknown as { hours: number }).hours = 3.2),
+      path: ['items', 0, 'lines', 0, 'hours'],
+    },
+    {
+      name: 'hours in exponent form',
+      change: (e) => ((e.items[0]!.lines[0] as { hours: string }).hours = '3e1'),
+      path: ['items', 0, 'lines', 0, 'hours'],
+    },
+    {
+      name: 'hours above the limit',
+      change: (e) => ((e.items[0]!.lines[0] as { hours: string }).hours = '10000.01'),
+      path: ['items', 0, 'lines', 0, 'hours'],
+      message: /at most 10000/,
+    },
+    {
+      name: 'a negative quantity',
+      change: (e) => ((e.items[0]!.lines[1] as { quantity: string }).quantity = '-1'),
+      path: ['items', 0, 'lines', 1, 'quantity'],
+    },
+    {
+      name: 'a tax rate with a percent sign',
+      change: (e) => (e.items[0]!.lines[1]!.taxRate = '20%'),
+      path: ['items', 0, 'lines', 1, 'taxRate'],
+    },
+    {
+      name: 'a tax rate above 100',
+      change: (e) => (e.items[0]!.lines[1]!.taxRate = '120'),
+      path: ['items', 0, 'lines', 1, 'taxRate'],
+      message: /at most 100/,
+    },
     { name: 'a step with bad hours', change: (e) => (e.accessSteps[0]!.hours = '.2'), path: ['accessSteps', 0, 'hours'] },
     { name: 'a bad discount percentage', change: (e) => (e.discount = { kind: 'percent', value: 'ten' }), path: ['discount', 'value'] },
     { name: 'a discount above 100%', change: (e) => (e.discount = { kind: 'percent', value: '100.01' }), path: ['discount', 'value'] },
     { name: 'a deposit percentage above 100', change: (e) => (e.deposit = { kind: 'percent', value: '101' }), path: ['deposit', 'value'] },
-    { name: 'a price in pounds rather than pence', change: (e) => ((e.items[0]!.lines[1] as { unitPrice: number }).unitPrice = 149.99), path: ['items', 0, 'lines', 1, 'unitPrice'] },
-    { name: 'a negative fee', change: (e) => e.items[0]!.lines.push({ kind: 'fee', description: 'Refund', amount: -100, taxRate: '20' }), path: ['items', 0, 'lines', 2, 'amount'] },
+    {
+      name: 'a price in pounds rather than pence',
+      change: (e) => ((e.items[0]!.lines[1] as { unitPrice: number }).unitPrice = 149.99),
+      path: ['items', 0, 'lines', 1, 'unitPrice'],
+    },
+    {
+      name: 'a negative fee',
+      change: (e) => e.items[0]!.lines.push({ kind: 'fee', description: 'Refund', amount: -100, taxRate: '20' }),
+      path: ['items', 0, 'lines', 2, 'amount'],
+    },
     { name: 'an unknown currency', change: (e) => (e.currency = 'XYZ'), path: ['currency'], message: /currency/ },
     { name: 'a lower-case currency code', change: (e) => (e.currency = 'gbp'), path: ['currency'] },
     { name: 'a currency the engine excludes', change: (e) => (e.currency = 'MGA'), path: ['currency'] },
-    { name: 'an unknown decision', change: (e) => ((e.items[0] as { decision: string }).decision = 'maybe'), path: ['items', 0, 'decision'] },
+    {
+      name: 'an unknown decision',
+      change: (e) => ((e.items[0] as { decision: string }).decision = 'maybe'),
+      path: ['items', 0, 'decision'],
+    },
     {
       name: 'a misspelt field',
       change: (e) => Object.assign(e.items[0]!.lines[0]!, { acessSteps: ['hub-strip-fl'] }),
@@ -368,7 +473,10 @@ describe('input errors', () => {
 
   it('refuses an estimate too large for exact minor units', () => {
     const result = safeCalculateEstimate(estimate({ items: [item('a', 'approved', [labour('10000', Number.MAX_SAFE_INTEGER)])] }))
-    expect(result).toMatchObject({ success: false, issues: [{ code: 'custom', path: [], message: expect.stringMatching(/more than can be represented/) }] })
+    expect(result).toMatchObject({
+      success: false,
+      issues: [{ code: 'custom', path: [], message: expect.stringMatching(/more than can be represented/) }],
+    })
   })
 
   it('names the first problem and counts the rest in the thrown message', () => {

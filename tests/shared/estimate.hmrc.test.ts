@@ -14,7 +14,7 @@
 import fc from 'fast-check'
 import { describe, expect, it } from 'vitest'
 import { calculateEstimate } from '../../shared/estimate'
-import type { EstimateInput } from '../../shared/schemas/estimate'
+import type { EstimateInput } from '../../shared/estimate/contract'
 import { estimate, fee, item, labour } from './estimate-helpers'
 
 type Rounding = EstimateInput['taxRounding']

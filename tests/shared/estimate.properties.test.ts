@@ -7,7 +7,13 @@ import Decimal from 'decimal.js'
 import fc from 'fast-check'
 import { describe, expect, it } from 'vitest'
 import { calculateEstimate } from '../../shared/estimate'
-import { EstimateResultSchema, type EstimateInput, type EstimateItem, type EstimateLine, type EstimateResult } from '../../shared/schemas/estimate'
+import {
+  EstimateResultSchema,
+  type EstimateInput,
+  type EstimateItem,
+  type EstimateLine,
+  type EstimateResult,
+} from '../../shared/estimate/contract'
 import { referenceEstimate } from './reference-estimate'
 
 const text = (scaled: number, places: number) => new Decimal(scaled).div(10 ** places).toFixed()
@@ -23,7 +29,10 @@ interface Shape {
  * Random estimates that satisfy every input rule: access steps only include earlier steps (no
  * loops), book hours are at least the access time, and an approved item only requires approved items.
  */
-function estimates({ labourRates = fc.integer({ min: 0, max: 15_000 }), taxRates = fc.constantFrom(...anyTaxRate) }: Shape = {}): fc.Arbitrary<EstimateInput> {
+function estimates({
+  labourRates = fc.integer({ min: 0, max: 15_000 }),
+  taxRates = fc.constantFrom(...anyTaxRate),
+}: Shape = {}): fc.Arbitrary<EstimateInput> {
   return fc.integer({ min: 0, max: 6 }).chain((stepCount) => {
     const codes = Array.from({ length: stepCount }, (_, s) => `s${s}`)
     const steps = fc.tuple(
@@ -101,25 +110,23 @@ function estimates({ labourRates = fc.integer({ min: 0, max: 15_000 }), taxRates
           taxMode: r.taxMode,
           taxRounding: r.taxRounding,
           accessSteps: r.steps.map((s) => ({ code: s.code, hours: text(s.hours, 2), includes: s.includes })),
-          items: r.items.map(
-            (it, i): EstimateItem => ({
-              id: ids[i]!,
-              title: `Item ${i + 1}`,
-              decision: it.decision,
-              requires: [
-                ...new Set(
-                  it.requires
-                    .map((n) => n % Math.max(1, r.items.length))
-                    .filter((n) => n !== i && (it.decision !== 'approved' || r.items[n]?.decision === 'approved'))
-                    .map((n) => ids[n]!),
-                ),
-              ],
-              lines: it.lines.map((l) =>
-                // Book time includes access, so the generated hours are the extra work on top of it.
-                l.kind === 'labour' ? { ...l, hours: text(accessHours(l.accessSteps) + Math.round(Number(l.hours) * 100), 2) } : l,
+          items: r.items.map((it, i): EstimateItem => ({
+            id: ids[i]!,
+            title: `Item ${i + 1}`,
+            decision: it.decision,
+            requires: [
+              ...new Set(
+                it.requires
+                  .map((n) => n % Math.max(1, r.items.length))
+                  .filter((n) => n !== i && (it.decision !== 'approved' || r.items[n]?.decision === 'approved'))
+                  .map((n) => ids[n]!),
               ),
-            }),
-          ),
+            ],
+            lines: it.lines.map((l) =>
+              // Book time includes access, so the generated hours are the extra work on top of it.
+              l.kind === 'labour' ? { ...l, hours: text(accessHours(l.accessSteps) + Math.round(Number(l.hours) * 100), 2) } : l,
+            ),
+          })),
           discount: r.discount,
           deposit: r.deposit,
           ...(r.minimumCharge === undefined ? {} : { minimumCharge: r.minimumCharge }),
@@ -253,7 +260,12 @@ describe('estimate invariants', () => {
 
   it('moving declined items around changes neither the approved scope nor any other item', () => {
     const withShuffle = estimates().chain((input) =>
-      fc.shuffledSubarray(input.items.map((_, i) => i), { minLength: input.items.length }).map((order) => ({ input, order })),
+      fc
+        .shuffledSubarray(
+          input.items.map((_, i) => i),
+          { minLength: input.items.length },
+        )
+        .map((order) => ({ input, order })),
     )
     fc.assert(
       fc.property(withShuffle, ({ input, order }) => {
@@ -266,7 +278,13 @@ describe('estimate invariants', () => {
         const figures = (r: EstimateResult) =>
           r.items
             .filter((i) => i.decision !== 'declined')
-            .map((i) => ({ id: i.id, net: i.net, tax: i.tax, gross: i.gross, lines: i.lines.map((l) => [l.amount, l.sharedHours, l.shared.map((s) => s.itemId)]) }))
+            .map((i) => ({
+              id: i.id,
+              net: i.net,
+              tax: i.tax,
+              gross: i.gross,
+              lines: i.lines.map((l) => [l.amount, l.sharedHours, l.shared.map((s) => s.itemId)]),
+            }))
         expect(figures(after)).toEqual(figures(before))
       }),
       { numRuns: 100 },

@@ -1,7 +1,12 @@
 import { describe, expect, it } from 'vitest'
 import { assessStands, backlashDegrees, centreDiffVerdict, diffOperationVerdict, suggestSeverity } from '../../shared/inspection/rules'
 import { starterChecks } from '../../shared/inspection/starter-template'
-import { SafetyCheckSchema, TemplateDefinitionSchema, type CheckDefinition, type DiffOperationSteps } from '../../shared/schemas/inspections'
+import {
+  SafetyCheckSchema,
+  TemplateDefinitionSchema,
+  type CheckDefinition,
+  type DiffOperationSteps,
+} from '../../shared/schemas/inspections'
 
 const check = (code: string): CheckDefinition => {
   const found = starterChecks.find((c) => c.code === code)
@@ -34,7 +39,13 @@ describe('backlash at the prop flange', () => {
 })
 
 describe('differential operation test (common practice)', () => {
-  const normal: DiffOperationSteps = { propTurnsWheelsSameWay: 'yes', heldPropOtherWheelOpposite: 'yes', heldWheelPropTurns: 'yes', wheelStiff: 'no', propWontStop: 'no' }
+  const normal: DiffOperationSteps = {
+    propTurnsWheelsSameWay: 'yes',
+    heldPropOtherWheelOpposite: 'yes',
+    heldWheelPropTurns: 'yes',
+    wheelStiff: 'no',
+    propWontStop: 'no',
+  }
   it('is normal when all three steps behave and nothing binds', () => {
     expect(diffOperationVerdict(normal)).toBe('normal')
     expect(suggestSeverity(check('diff-operation'), { kind: 'diff-operation', steps: normal }).severity).toBe('ok')
@@ -60,7 +71,10 @@ describe('centre differential test (common practice)', () => {
     expect(centreDiffVerdict(steps)).toBe(verdict)
   })
   it('names excessive backlash when the outputs lag', () => {
-    const s = suggestSeverity(check('tbox-centre-diff'), { kind: 'centre-diff', steps: { unlockedOutputsIndependent: 'yes', lockedOutputsTogether: 'yes', largeLagBetweenOutputs: 'yes' } })
+    const s = suggestSeverity(check('tbox-centre-diff'), {
+      kind: 'centre-diff',
+      steps: { unlockedOutputsIndependent: 'yes', lockedOutputsTogether: 'yes', largeLagBetweenOutputs: 'yes' },
+    })
     expect(s).toEqual({ severity: 'soon', detail: 'Excessive backlash between outputs' })
   })
 })
@@ -106,7 +120,14 @@ describe('measurement thresholds', () => {
   const measured: CheckDefinition = {
     ...check('swivel-leak'),
     code: 'play-mm',
-    input: { kind: 'measurement', unit: 'mm', thresholds: [{ above: '0.5', severity: 'watch' }, { above: '1.5', severity: 'urgent' }] },
+    input: {
+      kind: 'measurement',
+      unit: 'mm',
+      thresholds: [
+        { above: '0.5', severity: 'watch' },
+        { above: '1.5', severity: 'urgent' },
+      ],
+    },
   }
   it.each([
     ['0.5', 'ok'],
@@ -145,7 +166,16 @@ describe('axle stands (common practice: rated capacity above the axle load; loca
   })
 
   it('needs every caution confirmed', () => {
-    const parsed = SafetyCheckSchema.safeParse({ standsOnFirmLevelGround: true, atLiftingPoints: false, wheelsChocked: true, notOnJackAlone: true, standCapacityKg: 3000, capacityBasis: 'per-pair', standCount: 2, axleLoadKg: 1800 })
+    const parsed = SafetyCheckSchema.safeParse({
+      standsOnFirmLevelGround: true,
+      atLiftingPoints: false,
+      wheelsChocked: true,
+      notOnJackAlone: true,
+      standCapacityKg: 3000,
+      capacityBasis: 'per-pair',
+      standCount: 2,
+      axleLoadKg: 1800,
+    })
     expect(parsed.error?.issues.map((i) => i.path[0])).toEqual(['atLiftingPoints'])
   })
 })
@@ -153,7 +183,9 @@ describe('axle stands (common practice: rated capacity above the axle load; loca
 describe('the starter template', () => {
   it('is valid data and covers the drivetrain areas', () => {
     const parsed = TemplateDefinitionSchema.parse({ checks: starterChecks })
-    expect(new Set(parsed.checks.map((c) => c.area))).toEqual(new Set(['swivel-housings', 'cv-joints', 'prop-shafts', 'axle-differentials', 'transfer-box', 'half-shafts-hubs']))
+    expect(new Set(parsed.checks.map((c) => c.area))).toEqual(
+      new Set(['swivel-housings', 'cv-joints', 'prop-shafts', 'axle-differentials', 'transfer-box', 'half-shafts-hubs']),
+    )
   })
   it('refuses a template that uses a code twice', () => {
     const first = starterChecks[0]

@@ -171,19 +171,23 @@ describe('allocateLargestRemainder', () => {
 
   it('shares always sum to the total and stay within one unit of the exact share', () => {
     fc.assert(
-      fc.property(fc.bigInt({ min: 0n, max: 10n ** 9n }), fc.array(fc.bigInt({ min: 0n, max: 10n ** 6n }), { maxLength: 30 }), (total, weights) => {
-        const shares = allocateLargestRemainder(total, weights)
-        const sum = weights.reduce((a, b) => a + b, 0n)
-        if (sum === 0n) {
-          expect(shares.every((s) => s === 0n)).toBe(true)
-          return
-        }
-        expect(shares.reduce((a, b) => a + b, 0n)).toBe(total)
-        shares.forEach((share, i) => {
-          const floor = (total * weights[i]!) / sum
-          expect(share === floor || share === floor + 1n).toBe(true)
-        })
-      }),
+      fc.property(
+        fc.bigInt({ min: 0n, max: 10n ** 9n }),
+        fc.array(fc.bigInt({ min: 0n, max: 10n ** 6n }), { maxLength: 30 }),
+        (total, weights) => {
+          const shares = allocateLargestRemainder(total, weights)
+          const sum = weights.reduce((a, b) => a + b, 0n)
+          if (sum === 0n) {
+            expect(shares.every((s) => s === 0n)).toBe(true)
+            return
+          }
+          expect(shares.reduce((a, b) => a + b, 0n)).toBe(total)
+          shares.forEach((share, i) => {
+            const floor = (total * weights[i]!) / sum
+            expect(share === floor || share === floor + 1n).toBe(true)
+          })
+        },
+      ),
       { numRuns: 200 },
     )
   })

@@ -4,7 +4,7 @@
  * with it on random estimates. It assumes valid input: the engine's own tests cover errors.
  */
 import Decimal from 'decimal.js'
-import type { EstimateInput } from '../../shared/schemas/estimate'
+import type { EstimateInput } from '../../shared/estimate/contract'
 
 const D = Decimal.clone({ precision: 200, rounding: Decimal.ROUND_HALF_UP })
 type Dec = InstanceType<typeof D>

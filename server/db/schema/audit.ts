@@ -20,5 +20,8 @@ export const auditEvents = pgTable(
     userAgent: text(),
     createdAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
   },
-  (t) => [index('audit_events_workshop_time').on(t.workshopId, t.createdAt), index('audit_events_workshop_action').on(t.workshopId, t.action)],
+  (t) => [
+    index('audit_events_workshop_time').on(t.workshopId, t.createdAt),
+    index('audit_events_workshop_action').on(t.workshopId, t.action),
+  ],
 )

@@ -1,5 +1,19 @@
 import { sql } from 'drizzle-orm'
-import { check, customType, foreignKey, index, integer, numeric, pgEnum, pgTable, primaryKey, text, timestamp, unique, uuid } from 'drizzle-orm/pg-core'
+import {
+  check,
+  customType,
+  foreignKey,
+  index,
+  integer,
+  numeric,
+  pgEnum,
+  pgTable,
+  primaryKey,
+  text,
+  timestamp,
+  unique,
+  uuid,
+} from 'drizzle-orm/pg-core'
 import { id, timestamps } from './columns'
 import { jobs } from './jobs'
 import { staffUsers } from './staff'
@@ -15,7 +29,9 @@ const tsvector = customType<{ data: string }>({ dataType: () => 'tsvector' })
 
 const searchColumns = {
   searchText: text().notNull().default(''),
-  searchVector: tsvector().notNull().default(sql`''::tsvector`),
+  searchVector: tsvector()
+    .notNull()
+    .default(sql`''::tsvector`),
   lookupKey: text().notNull().default(''),
 }
 
@@ -60,7 +76,9 @@ export const accessStepIncludes = pgTable(
     primaryKey({ columns: [t.stepId, t.includedStepId] }),
     foreignKey({ columns: [t.workshopId, t.stepId], foreignColumns: [accessSteps.workshopId, accessSteps.id] }).onDelete('cascade'),
     // A step another step includes cannot be deleted out from under it.
-    foreignKey({ columns: [t.workshopId, t.includedStepId], foreignColumns: [accessSteps.workshopId, accessSteps.id] }).onDelete('restrict'),
+    foreignKey({ columns: [t.workshopId, t.includedStepId], foreignColumns: [accessSteps.workshopId, accessSteps.id] }).onDelete(
+      'restrict',
+    ),
     index('access_step_includes_included').on(t.workshopId, t.includedStepId),
     check('access_step_includes_not_itself', sql`${t.stepId} <> ${t.includedStepId}`),
   ],
@@ -75,10 +93,16 @@ export const labourOperations = pgTable(
       .references(() => workshops.id, { onDelete: 'restrict' }),
     code: text().notNull(),
     name: text().notNull(),
-    synonyms: text().array().notNull().default(sql`'{}'::text[]`),
+    synonyms: text()
+      .array()
+      .notNull()
+      .default(sql`'{}'::text[]`),
     system: labourSystem().notNull(),
     /** Vehicle group codes the time applies to; empty means every group. */
-    vehicleGroups: text().array().notNull().default(sql`'{}'::text[]`),
+    vehicleGroups: text()
+      .array()
+      .notNull()
+      .default(sql`'{}'::text[]`),
     side: labourSide().notNull(),
     /** Book time, including the time of the operation's access steps. */
     bookHours: hours().notNull(),
@@ -108,7 +132,9 @@ export const labourOperationAccessSteps = pgTable(
   },
   (t) => [
     primaryKey({ columns: [t.operationId, t.accessStepId] }),
-    foreignKey({ columns: [t.workshopId, t.operationId], foreignColumns: [labourOperations.workshopId, labourOperations.id] }).onDelete('cascade'),
+    foreignKey({ columns: [t.workshopId, t.operationId], foreignColumns: [labourOperations.workshopId, labourOperations.id] }).onDelete(
+      'cascade',
+    ),
     foreignKey({ columns: [t.workshopId, t.accessStepId], foreignColumns: [accessSteps.workshopId, accessSteps.id] }).onDelete('restrict'),
     index('labour_operation_access_steps_step').on(t.workshopId, t.accessStepId),
   ],
@@ -163,7 +189,10 @@ export const workshopPricing = pgTable(
       .$onUpdate(() => new Date()),
   },
   (t) => [
-    check('workshop_pricing_rates_range', sql`coalesce(${t.standardRateMinor}, 0) >= 0 and coalesce(${t.diagnosticRateMinor}, 0) >= 0 and coalesce(${t.specialistRateMinor}, 0) >= 0`),
+    check(
+      'workshop_pricing_rates_range',
+      sql`coalesce(${t.standardRateMinor}, 0) >= 0 and coalesce(${t.diagnosticRateMinor}, 0) >= 0 and coalesce(${t.specialistRateMinor}, 0) >= 0`,
+    ),
     check('workshop_pricing_tax_range', sql`${t.defaultTaxRate} >= 0 and ${t.defaultTaxRate} <= 100`),
   ],
 )
@@ -200,7 +229,9 @@ export const labourClockTimes = pgTable(
     recordedAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
   },
   (t) => [
-    foreignKey({ columns: [t.workshopId, t.operationId], foreignColumns: [labourOperations.workshopId, labourOperations.id] }).onDelete('restrict'),
+    foreignKey({ columns: [t.workshopId, t.operationId], foreignColumns: [labourOperations.workshopId, labourOperations.id] }).onDelete(
+      'restrict',
+    ),
     foreignKey({ columns: [t.workshopId, t.technicianId], foreignColumns: [staffUsers.workshopId, staffUsers.id] }).onDelete('restrict'),
     foreignKey({ columns: [t.workshopId, t.jobId], foreignColumns: [jobs.workshopId, jobs.id] }).onDelete('restrict'),
     index('labour_clock_times_operation').on(t.workshopId, t.operationId),

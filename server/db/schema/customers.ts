@@ -13,7 +13,10 @@ export const customers = pgTable(
     name: text().notNull(),
     email: text(),
     phone: text(),
-    addressLines: text().array().notNull().default(sql`'{}'::text[]`),
+    addressLines: text()
+      .array()
+      .notNull()
+      .default(sql`'{}'::text[]`),
     postcode: text(),
     contactByEmail: boolean().notNull().default(true),
     contactByPhone: boolean().notNull().default(false),

@@ -1,12 +1,28 @@
 import { sql } from 'drizzle-orm'
-import { check, date, foreignKey, index, inet, integer, jsonb, pgEnum, pgTable, primaryKey, text, timestamp, unique, uniqueIndex, uuid } from 'drizzle-orm/pg-core'
+import {
+  check,
+  date,
+  foreignKey,
+  index,
+  inet,
+  integer,
+  jsonb,
+  pgEnum,
+  pgTable,
+  primaryKey,
+  text,
+  timestamp,
+  unique,
+  uniqueIndex,
+  uuid,
+} from 'drizzle-orm/pg-core'
 import { id, timestamps } from './columns'
 import { customers } from './customers'
 import { jobs } from './jobs'
 import { staffUsers } from './staff'
 import { workshops } from './workshops'
 import type { EstimateDraft, EstimateSnapshot } from '../../../shared/schemas/estimates'
-import type { EstimateResult } from '../../../shared/schemas/estimate'
+import type { EstimateResult } from '../../../shared/estimate/contract'
 
 /** One gap-free sequence per workshop; the row is locked by the creating transaction. */
 export const estimateCounters = pgTable('estimate_counters', {
@@ -85,7 +101,9 @@ export const estimateDecisions = pgTable(
   },
   (t) => [
     primaryKey({ columns: [t.versionId, t.itemId] }),
-    foreignKey({ columns: [t.workshopId, t.versionId], foreignColumns: [estimateVersions.workshopId, estimateVersions.id] }).onDelete('restrict'),
+    foreignKey({ columns: [t.workshopId, t.versionId], foreignColumns: [estimateVersions.workshopId, estimateVersions.id] }).onDelete(
+      'restrict',
+    ),
   ],
 )
 
@@ -117,7 +135,9 @@ export const estimateConfirmations = pgTable(
   (t) => [
     unique('estimate_confirmations_workshop_id_id').on(t.workshopId, t.id),
     uniqueIndex('estimate_confirmations_one_per_version').on(t.versionId),
-    foreignKey({ columns: [t.workshopId, t.versionId], foreignColumns: [estimateVersions.workshopId, estimateVersions.id] }).onDelete('restrict'),
+    foreignKey({ columns: [t.workshopId, t.versionId], foreignColumns: [estimateVersions.workshopId, estimateVersions.id] }).onDelete(
+      'restrict',
+    ),
     foreignKey({ columns: [t.workshopId, t.customerId], foreignColumns: [customers.workshopId, customers.id] }).onDelete('restrict'),
   ],
 )
@@ -138,7 +158,9 @@ export const estimateLinks = pgTable(
   },
   (t) => [
     uniqueIndex('estimate_links_token_hash').on(t.tokenHash),
-    foreignKey({ columns: [t.workshopId, t.versionId], foreignColumns: [estimateVersions.workshopId, estimateVersions.id] }).onDelete('restrict'),
+    foreignKey({ columns: [t.workshopId, t.versionId], foreignColumns: [estimateVersions.workshopId, estimateVersions.id] }).onDelete(
+      'restrict',
+    ),
     foreignKey({ columns: [t.workshopId, t.customerId], foreignColumns: [customers.workshopId, customers.id] }).onDelete('restrict'),
   ],
 )
@@ -161,7 +183,9 @@ export const estimateQuestions = pgTable(
   },
   (t) => [
     foreignKey({ columns: [t.workshopId, t.estimateId], foreignColumns: [estimates.workshopId, estimates.id] }).onDelete('restrict'),
-    foreignKey({ columns: [t.workshopId, t.versionId], foreignColumns: [estimateVersions.workshopId, estimateVersions.id] }).onDelete('restrict'),
+    foreignKey({ columns: [t.workshopId, t.versionId], foreignColumns: [estimateVersions.workshopId, estimateVersions.id] }).onDelete(
+      'restrict',
+    ),
     foreignKey({ columns: [t.workshopId, t.answeredBy], foreignColumns: [staffUsers.workshopId, staffUsers.id] }).onDelete('restrict'),
     index('estimate_questions_estimate').on(t.workshopId, t.estimateId),
     check('estimate_questions_question_present', sql`length(trim(${t.question})) > 0`),
@@ -191,7 +215,10 @@ export const depositPayments = pgTable(
   (t) => [
     uniqueIndex('deposit_payments_one_per_confirmation').on(t.confirmationId),
     uniqueIndex('deposit_payments_checkout_session').on(t.checkoutSessionId),
-    foreignKey({ columns: [t.workshopId, t.confirmationId], foreignColumns: [estimateConfirmations.workshopId, estimateConfirmations.id] }).onDelete('restrict'),
+    foreignKey({
+      columns: [t.workshopId, t.confirmationId],
+      foreignColumns: [estimateConfirmations.workshopId, estimateConfirmations.id],
+    }).onDelete('restrict'),
     check('deposit_payments_amount_positive', sql`${t.amountMinor} > 0`),
   ],
 )

@@ -25,7 +25,10 @@ export const checkTemplates = pgTable(
     archivedAt: timestamp({ withTimezone: true }),
     ...timestamps,
   },
-  (t) => [unique('check_templates_workshop_id_id').on(t.workshopId, t.id), check('check_templates_name_present', sql`length(trim(${t.name})) > 0`)],
+  (t) => [
+    unique('check_templates_workshop_id_id').on(t.workshopId, t.id),
+    check('check_templates_name_present', sql`length(trim(${t.name})) > 0`),
+  ],
 )
 
 export const inspections = pgTable(
@@ -51,7 +54,9 @@ export const inspections = pgTable(
   (t) => [
     unique('inspections_workshop_id_id').on(t.workshopId, t.id),
     foreignKey({ columns: [t.workshopId, t.jobId], foreignColumns: [jobs.workshopId, jobs.id] }).onDelete('restrict'),
-    foreignKey({ columns: [t.workshopId, t.templateId], foreignColumns: [checkTemplates.workshopId, checkTemplates.id] }).onDelete('restrict'),
+    foreignKey({ columns: [t.workshopId, t.templateId], foreignColumns: [checkTemplates.workshopId, checkTemplates.id] }).onDelete(
+      'restrict',
+    ),
     foreignKey({ columns: [t.workshopId, t.technicianId], foreignColumns: [staffUsers.workshopId, staffUsers.id] }).onDelete('restrict'),
     index('inspections_job').on(t.jobId),
     check('inspections_finished_after_start', sql`${t.finishedAt} is null or ${t.finishedAt} >= ${t.startedAt}`),
@@ -110,7 +115,9 @@ export const findings = pgTable(
     unique('findings_workshop_id_id').on(t.workshopId, t.id),
     foreignKey({ columns: [t.workshopId, t.jobId], foreignColumns: [jobs.workshopId, jobs.id] }).onDelete('restrict'),
     foreignKey({ columns: [t.workshopId, t.inspectionId], foreignColumns: [inspections.workshopId, inspections.id] }).onDelete('restrict'),
-    foreignKey({ columns: [t.workshopId, t.resultId], foreignColumns: [inspectionResults.workshopId, inspectionResults.id] }).onDelete('restrict'),
+    foreignKey({ columns: [t.workshopId, t.resultId], foreignColumns: [inspectionResults.workshopId, inspectionResults.id] }).onDelete(
+      'restrict',
+    ),
     uniqueIndex('findings_one_per_result').on(t.resultId),
     index('findings_job').on(t.jobId),
     check('findings_title_present', sql`length(trim(${t.title})) > 0`),

@@ -8,7 +8,10 @@ export const workshops = pgTable(
   {
     id: id(),
     name: text().notNull(),
-    addressLines: text().array().notNull().default(sql`'{}'::text[]`),
+    addressLines: text()
+      .array()
+      .notNull()
+      .default(sql`'{}'::text[]`),
     postcode: text(),
     phone: text(),
     email: text(),

@@ -22,7 +22,10 @@ export function createAuditRepo(db: Database) {
           .orderBy(order, desc(auditEvents.id))
           .limit(q.pageSize)
           .offset((q.page - 1) * q.pageSize),
-        db.select({ n: count() }).from(auditEvents).where(and(...where)),
+        db
+          .select({ n: count() })
+          .from(auditEvents)
+          .where(and(...where)),
       ])
       return { items, total: total?.n ?? 0 }
     },

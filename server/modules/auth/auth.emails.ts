@@ -1,8 +1,18 @@
 import { escapeHtml, type MailMessage } from '../../lib/mailer'
 
-export function signInEmail(opts: { to: string; name: string; workshopName: string; link: string; minutes: number; forCustomer: boolean; invitedBy?: string }): MailMessage {
+export function signInEmail(opts: {
+  to: string
+  name: string
+  workshopName: string
+  link: string
+  minutes: number
+  forCustomer: boolean
+  invitedBy?: string
+}): MailMessage {
   const intro = opts.invitedBy ? `${opts.invitedBy} has added you to ${opts.workshopName} on Tickover.` : null
-  const what = opts.forCustomer ? `see your vehicles and estimates from ${opts.workshopName}` : `sign in to Tickover for ${opts.workshopName}`
+  const what = opts.forCustomer
+    ? `see your vehicles and estimates from ${opts.workshopName}`
+    : `sign in to Tickover for ${opts.workshopName}`
   const text = [
     `Hello ${opts.name},`,
     '',

@@ -9,7 +9,13 @@ export function createAuthRepo(db: Database) {
   return {
     async activeStaffByEmail(email: string) {
       const [row] = await db
-        .select({ id: staffUsers.id, name: staffUsers.name, email: staffUsers.email, workshopId: staffUsers.workshopId, workshopName: workshops.name })
+        .select({
+          id: staffUsers.id,
+          name: staffUsers.name,
+          email: staffUsers.email,
+          workshopId: staffUsers.workshopId,
+          workshopName: workshops.name,
+        })
         .from(staffUsers)
         .innerJoin(workshops, eq(workshops.id, staffUsers.workshopId))
         .where(and(sql`lower(${staffUsers.email}) = ${email.toLowerCase()}`, isNull(staffUsers.deactivatedAt)))
@@ -18,7 +24,13 @@ export function createAuthRepo(db: Database) {
 
     async customersByEmail(email: string) {
       return db
-        .select({ id: customers.id, name: customers.name, email: customers.email, workshopId: customers.workshopId, workshopName: workshops.name })
+        .select({
+          id: customers.id,
+          name: customers.name,
+          email: customers.email,
+          workshopId: customers.workshopId,
+          workshopName: workshops.name,
+        })
         .from(customers)
         .innerJoin(workshops, eq(workshops.id, customers.workshopId))
         .where(and(sql`lower(${customers.email}) = ${email.toLowerCase()}`, isNull(customers.archivedAt)))
@@ -48,7 +60,14 @@ export function createAuthRepo(db: Database) {
     async loadPrincipal(kind: 'staff' | 'customer', id: string): Promise<Principal | undefined> {
       if (kind === 'staff') {
         const [row] = await db
-          .select({ id: staffUsers.id, name: staffUsers.name, email: staffUsers.email, role: staffUsers.role, deactivatedAt: staffUsers.deactivatedAt, workshop: workshopColumns })
+          .select({
+            id: staffUsers.id,
+            name: staffUsers.name,
+            email: staffUsers.email,
+            role: staffUsers.role,
+            deactivatedAt: staffUsers.deactivatedAt,
+            workshop: workshopColumns,
+          })
           .from(staffUsers)
           .innerJoin(workshops, eq(workshops.id, staffUsers.workshopId))
           .where(eq(staffUsers.id, id))
@@ -56,7 +75,13 @@ export function createAuthRepo(db: Database) {
         return { kind: 'staff', id: row.id, name: row.name, email: row.email, role: row.role, workshop: row.workshop }
       }
       const [row] = await db
-        .select({ id: customers.id, name: customers.name, email: customers.email, archivedAt: customers.archivedAt, workshop: workshopColumns })
+        .select({
+          id: customers.id,
+          name: customers.name,
+          email: customers.email,
+          archivedAt: customers.archivedAt,
+          workshop: workshopColumns,
+        })
         .from(customers)
         .innerJoin(workshops, eq(workshops.id, customers.workshopId))
         .where(eq(customers.id, id))

@@ -51,7 +51,11 @@ export function configureMagicLink(passport: Passport, service: AuthService, env
 
 function requestToken(passport: Passport, ...[req, res, next, fields]: [...Parameters<RequestHandler>, Omit<LinkFields, 'nonce'>]) {
   req.body = { ...fields, nonce: randomBytes(32).toString('base64url') } satisfies LinkFields
-  passport.authenticate('magiclink', { action: 'requestToken', session: false }, (err: unknown) => next(err ?? invalidLink()))(req, res, next)
+  passport.authenticate('magiclink', { action: 'requestToken', session: false }, (err: unknown) => next(err ?? invalidLink()))(
+    req,
+    res,
+    next,
+  )
 }
 
 /** After an owner adds someone, the same sign-in link goes out, worded as an invitation. */
@@ -69,7 +73,12 @@ const invalidLink = () =>
 
 export function authRoutes(
   table: RouteTable,
-  deps: { passport: Passport; service: AuthService; db: Database; limits: { byIp: RequestHandler; byEmail: RequestHandler; verifyByIp: RequestHandler } },
+  deps: {
+    passport: Passport
+    service: AuthService
+    db: Database
+    limits: { byIp: RequestHandler; byEmail: RequestHandler; verifyByIp: RequestHandler }
+  },
 ) {
   const { passport, service, db, limits } = deps
   const g = table.group('/auth')
@@ -90,19 +99,23 @@ export function authRoutes(
   g.post('/customer/link', anyone, ...requestLink('customer'))
 
   g.post('/verify', anyone, limits.verifyByIp, validate({ body: SignInVerifySchema }), (req, res, next) => {
-    passport.authenticate('magiclink', { action: 'acceptToken', allowReuse: true, session: false }, (err: unknown, user: Principal | false, _info: unknown, status?: number) => {
-      if (err) return next(err)
-      if (!user) {
-        // 401 comes from the signature or expiry check, before our table saw the token.
-        if (status === 401) return service.recordTamperedLink(req).then(() => next(invalidLink()), next)
-        return next(invalidLink())
-      }
-      req.logIn(user, (loginErr) => {
-        if (loginErr) return next(loginErr)
-        req.session.signedInAt = Date.now()
-        service.recordSignIn(req, user).then(() => res.json({ user }), next)
-      })
-    })(req, res, next)
+    passport.authenticate(
+      'magiclink',
+      { action: 'acceptToken', allowReuse: true, session: false },
+      (err: unknown, user: Principal | false, _info: unknown, status?: number) => {
+        if (err) return next(err)
+        if (!user) {
+          // 401 comes from the signature or expiry check, before our table saw the token.
+          if (status === 401) return service.recordTamperedLink(req).then(() => next(invalidLink()), next)
+          return next(invalidLink())
+        }
+        req.logIn(user, (loginErr) => {
+          if (loginErr) return next(loginErr)
+          req.session.signedInAt = Date.now()
+          service.recordSignIn(req, user).then(() => res.json({ user }), next)
+        })
+      },
+    )(req, res, next)
   })
 
   g.get('/me', anyone, (req, res) => {

@@ -14,7 +14,6 @@ export const SIGN_IN_LINK_SECONDS = 600
 
 export type Audience = 'staff' | 'customer'
 
-
 export function createAuthService(deps: { repo: AuthRepo; db: Database; mailer: Mailer; logger: Logger; env: Env }) {
   const { repo, db, mailer, logger, env } = deps
 
@@ -26,7 +25,13 @@ export function createAuthService(deps: { repo: AuthRepo; db: Database; mailer: 
      * Stores the hash of a freshly signed token and e-mails the link, for a known address only. The caller
      * answers the same way either way, and the e-mail goes out in the background so timing tells nothing.
      */
-    async issueLink(req: Request, audience: Audience, email: string, token: string, purpose: 'sign-in' | 'invite' = 'sign-in'): Promise<void> {
+    async issueLink(
+      req: Request,
+      audience: Audience,
+      email: string,
+      token: string,
+      purpose: 'sign-in' | 'invite' = 'sign-in',
+    ): Promise<void> {
       const expiresAt = new Date(Date.now() + SIGN_IN_LINK_SECONDS * 1000)
       if (audience === 'staff') {
         const staff = await repo.activeStaffByEmail(email)
@@ -34,7 +39,13 @@ export function createAuthService(deps: { repo: AuthRepo; db: Database; mailer: 
           logger.info({ audience }, 'sign-in link asked for an address with no account')
           return
         }
-        await repo.insertToken({ tokenHash: hashToken(token), principalKind: 'staff', staffUserId: staff.id, workshopId: staff.workshopId, expiresAt })
+        await repo.insertToken({
+          tokenHash: hashToken(token),
+          principalKind: 'staff',
+          staffUserId: staff.id,
+          workshopId: staff.workshopId,
+          expiresAt,
+        })
         await recordAudit(db, req, {
           action: 'sign_in.requested',
           workshopId: staff.workshopId,
@@ -64,12 +75,30 @@ export function createAuthService(deps: { repo: AuthRepo; db: Database; mailer: 
         logger.info({ audience }, 'sign-in link asked for an address with no account')
         return
       }
-      await repo.insertToken({ tokenHash: hashToken(token), principalKind: 'customer', customerId: customer.id, workshopId: customer.workshopId, expiresAt })
-      await recordAudit(db, req, { action: 'sign_in.requested', workshopId: customer.workshopId, actor: { kind: 'anonymous' }, subject: { type: 'customer', id: customer.id } })
+      await repo.insertToken({
+        tokenHash: hashToken(token),
+        principalKind: 'customer',
+        customerId: customer.id,
+        workshopId: customer.workshopId,
+        expiresAt,
+      })
+      await recordAudit(db, req, {
+        action: 'sign_in.requested',
+        workshopId: customer.workshopId,
+        actor: { kind: 'anonymous' },
+        subject: { type: 'customer', id: customer.id },
+      })
       sendInBackground(
         mailer,
         logger,
-        signInEmail({ to: customer.email ?? email, name: customer.name, workshopName: customer.workshopName, link: linkFor('customer', token), minutes: SIGN_IN_LINK_SECONDS / 60, forCustomer: true }),
+        signInEmail({
+          to: customer.email ?? email,
+          name: customer.name,
+          workshopName: customer.workshopName,
+          link: linkFor('customer', token),
+          minutes: SIGN_IN_LINK_SECONDS / 60,
+          forCustomer: true,
+        }),
         'customer sign-in link',
       )
     },
@@ -81,17 +110,32 @@ export function createAuthService(deps: { repo: AuthRepo; db: Database; mailer: 
       if (!row) {
         const known = await repo.findToken(tokenHash)
         const reason = !known ? 'unknown' : known.usedAt ? 'already_used' : 'expired'
-        await recordAudit(db, req, { action: 'sign_in.failed', workshopId: known?.workshopId ?? null, actor: { kind: 'anonymous' }, details: { reason } })
+        await recordAudit(db, req, {
+          action: 'sign_in.failed',
+          workshopId: known?.workshopId ?? null,
+          actor: { kind: 'anonymous' },
+          details: { reason },
+        })
         return null
       }
       if (row.principalKind !== audience) {
-        await recordAudit(db, req, { action: 'sign_in.failed', workshopId: row.workshopId, actor: { kind: 'anonymous' }, details: { reason: 'audience_mismatch' } })
+        await recordAudit(db, req, {
+          action: 'sign_in.failed',
+          workshopId: row.workshopId,
+          actor: { kind: 'anonymous' },
+          details: { reason: 'audience_mismatch' },
+        })
         return null
       }
       const id = row.principalKind === 'staff' ? row.staffUserId : row.customerId
       const principal = id ? await repo.loadPrincipal(row.principalKind, id) : undefined
       if (!principal) {
-        await recordAudit(db, req, { action: 'sign_in.failed', workshopId: row.workshopId, actor: { kind: 'anonymous' }, details: { reason: 'account_inactive' } })
+        await recordAudit(db, req, {
+          action: 'sign_in.failed',
+          workshopId: row.workshopId,
+          actor: { kind: 'anonymous' },
+          details: { reason: 'account_inactive' },
+        })
         return null
       }
       return principal
@@ -99,11 +143,20 @@ export function createAuthService(deps: { repo: AuthRepo; db: Database; mailer: 
 
     async recordSignIn(req: Request, principal: Principal) {
       if (principal.kind === 'staff') await repo.markSignedIn(principal.id)
-      await recordAudit(db, req, { action: 'sign_in.succeeded', workshopId: principal.workshop.id, actor: { kind: principal.kind, id: principal.id, name: principal.name } })
+      await recordAudit(db, req, {
+        action: 'sign_in.succeeded',
+        workshopId: principal.workshop.id,
+        actor: { kind: principal.kind, id: principal.id, name: principal.name },
+      })
     },
 
     async recordTamperedLink(req: Request) {
-      await recordAudit(db, req, { action: 'sign_in.failed', workshopId: null, actor: { kind: 'anonymous' }, details: { reason: 'invalid_signature_or_expired' } })
+      await recordAudit(db, req, {
+        action: 'sign_in.failed',
+        workshopId: null,
+        actor: { kind: 'anonymous' },
+        details: { reason: 'invalid_signature_or_expired' },
+      })
     },
   }
 }

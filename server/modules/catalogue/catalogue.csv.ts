@@ -39,7 +39,12 @@ export function readCsv(text: string, columns: readonly CsvColumn[]): { records:
   } catch (err) {
     if (!(err instanceof CsvError)) throw err
     const line = typeof err.lines === 'number' ? err.lines : 1
-    return { records: [], errors: [{ row: line, column: null, message: `The file cannot be read as CSV around line ${line}: check for an unclosed quote mark.` }] }
+    return {
+      records: [],
+      errors: [
+        { row: line, column: null, message: `The file cannot be read as CSV around line ${line}: check for an unclosed quote mark.` },
+      ],
+    }
   }
 
   const [header = [], ...body] = raw
@@ -47,11 +52,17 @@ export function readCsv(text: string, columns: readonly CsvColumn[]): { records:
   const known = new Set(columns.map((c) => c.name))
   const errors: ImportIssue[] = []
   names.forEach((name, i) => {
-    if (!known.has(name)) errors.push({ row: 1, column: name || `column ${i + 1}`, message: `Unknown column. The columns are: ${columns.map((c) => c.name).join(', ')}.` })
+    if (!known.has(name))
+      errors.push({
+        row: 1,
+        column: name || `column ${i + 1}`,
+        message: `Unknown column. The columns are: ${columns.map((c) => c.name).join(', ')}.`,
+      })
     else if (names.indexOf(name) !== i) errors.push({ row: 1, column: name, message: 'This column appears twice.' })
   })
   for (const c of columns) {
-    if (c.required && !names.includes(c.name)) errors.push({ row: 1, column: c.name, message: 'This column is missing from the header row.' })
+    if (c.required && !names.includes(c.name))
+      errors.push({ row: 1, column: c.name, message: 'This column is missing from the header row.' })
   }
   if (errors.length > 0) return { records: [], errors }
 
@@ -60,7 +71,11 @@ export function readCsv(text: string, columns: readonly CsvColumn[]): { records:
     const row = i + 2
     if (cells.every((c) => c.trim() === '')) return
     if (cells.length > names.length) {
-      errors.push({ row, column: null, message: `This row has ${cells.length} cells but the header has ${names.length}. A cell with a comma in it needs quote marks around it.` })
+      errors.push({
+        row,
+        column: null,
+        message: `This row has ${cells.length} cells but the header has ${names.length}. A cell with a comma in it needs quote marks around it.`,
+      })
       return
     }
     records.push({ row, cells: Object.fromEntries(names.map((name, k) => [name, (cells[k] ?? '').trim()])) })

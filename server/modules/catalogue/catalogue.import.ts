@@ -45,7 +45,12 @@ export function planImport<Input>(
 ): ImportPlan<Input> {
   const { records, errors } = readCsv(text, table.columns)
   if (records.length > MAX_IMPORT_ROWS) {
-    return { rows: [], errors: [{ row: 1, column: null, message: `The file has ${records.length} rows; at most ${MAX_IMPORT_ROWS} can be imported at once.` }] }
+    return {
+      rows: [],
+      errors: [
+        { row: 1, column: null, message: `The file has ${records.length} rows; at most ${MAX_IMPORT_ROWS} can be imported at once.` },
+      ],
+    }
   }
   const rows: PlannedRow<Input>[] = []
   const seen = new Map<string, number>()

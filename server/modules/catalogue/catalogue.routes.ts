@@ -98,9 +98,14 @@ export function catalogueRoutes(table: RouteTable, db: Database) {
   g.post('/labour-operations/:id/restore', manage, validate({ params: IdParamsSchema }), async (req, res) => {
     res.json(await labour.setArchived(ws(req), id(req), false))
   })
-  g.post('/labour-operations/:id/clock-times', staffWith('inspections:write'), validate({ params: IdParamsSchema, body: ClockTimeInputSchema }), async (req, res) => {
-    res.status(201).json(await labour.recordClockTime(staffOf(req), id(req), req.body as ClockTimeInput))
-  })
+  g.post(
+    '/labour-operations/:id/clock-times',
+    staffWith('inspections:write'),
+    validate({ params: IdParamsSchema, body: ClockTimeInputSchema }),
+    async (req, res) => {
+      res.status(201).json(await labour.recordClockTime(staffOf(req), id(req), req.body as ClockTimeInput))
+    },
+  )
 
   g.get('/access-steps', read, async (req, res) => {
     res.json({ items: await labour.listSteps(ws(req)) })

@@ -68,7 +68,10 @@ interface RankedSearch<T extends Searchable> {
  * One statement does it all, rows included: the lookup answers as the advisor types, and each
  * round trip to the database is a share of that time.
  */
-export async function rankedSearch<T extends Searchable>(db: Database, s: RankedSearch<T>): Promise<{ rows: Listed<T>[]; extras: unknown[]; total: number }> {
+export async function rankedSearch<T extends Searchable>(
+  db: Database,
+  s: RankedSearch<T>,
+): Promise<{ rows: Listed<T>[]; extras: unknown[]; total: number }> {
   const words = searchWords(s.q)
   const key = lookupKey(s.q)
   if (words.length === 0 && key === '') return { rows: [], extras: [], total: 0 }

@@ -45,31 +45,59 @@ export function createLabourRepo(db: Database) {
     },
 
     /** A page of operations with their access step codes in order (the search brings them in the same statement). */
-    async search(workshopId: string, q: LabourSearchQuery): Promise<{ rows: OperationRecord[]; stepCodes: Map<string, string[]>; total: number }> {
+    async search(
+      workshopId: string,
+      q: LabourSearchQuery,
+    ): Promise<{ rows: OperationRecord[]; stepCodes: Map<string, string[]>; total: number }> {
       const o = labourOperations
       const where: SQL[] = [q.archived ? isNotNull(o.archivedAt) : isNull(o.archivedAt)]
       if (q.vehicleGroup) where.push(sql`(cardinality(${o.vehicleGroups}) = 0 or ${q.vehicleGroup} = any(${o.vehicleGroups}))`)
       if (q.system) where.push(eq(o.system, q.system))
-      if (q.side) where.push(q.side === 'none' ? eq(o.side, 'none') : or(eq(o.side, q.side), eq(o.side, 'none')) as SQL)
+      if (q.side) where.push(q.side === 'none' ? eq(o.side, 'none') : (or(eq(o.side, q.side), eq(o.side, 'none')) as SQL))
       const filters = and(...where) as SQL
       const offset = (q.page - 1) * q.pageSize
 
       if (q.q) {
         const l = labourOperationAccessSteps
         const stepCodes = sql`(select coalesce(array_agg(s.code order by l.position), '{}') from ${l} l join ${accessSteps} s on s.id = l.access_step_id where l.operation_id = ${o.id})`
-        const found = await rankedSearch(db, { workshopId, source: 'labour', table: o, q: q.q, where: filters, sortName: sql`${o.name}`, extra: stepCodes, limit: q.pageSize, offset })
-        return { rows: found.rows, stepCodes: new Map(found.rows.map((r, i) => [r.id, (found.extras[i] as string[] | null) ?? []])), total: found.total }
+        const found = await rankedSearch(db, {
+          workshopId,
+          source: 'labour',
+          table: o,
+          q: q.q,
+          where: filters,
+          sortName: sql`${o.name}`,
+          extra: stepCodes,
+          limit: q.pageSize,
+          offset,
+        })
+        return {
+          rows: found.rows,
+          stepCodes: new Map(found.rows.map((r, i) => [r.id, (found.extras[i] as string[] | null) ?? []])),
+          total: found.total,
+        }
       }
       const scoped = and(eq(o.workshopId, workshopId), filters)
       const [rows, [total]] = await Promise.all([
         db.select().from(o).where(scoped).orderBy(asc(o.code)).limit(q.pageSize).offset(offset),
         db.select({ n: count() }).from(o).where(scoped),
       ])
-      return { rows, stepCodes: await stepCodesOf(db, workshopId, rows.map((r) => r.id)), total: total?.n ?? 0 }
+      return {
+        rows,
+        stepCodes: await stepCodesOf(
+          db,
+          workshopId,
+          rows.map((r) => r.id),
+        ),
+        total: total?.n ?? 0,
+      }
     },
 
     async findOperation(workshopId: string, id: string) {
-      const [row] = await db.select().from(labourOperations).where(and(eq(labourOperations.workshopId, workshopId), eq(labourOperations.id, id)))
+      const [row] = await db
+        .select()
+        .from(labourOperations)
+        .where(and(eq(labourOperations.workshopId, workshopId), eq(labourOperations.id, id)))
       return row
     },
 
@@ -84,7 +112,12 @@ export function createLabourRepo(db: Database) {
     async steps(tx: Queryable, workshopId: string): Promise<StepWithIncludes[]> {
       const included = alias(accessSteps, 'included')
       const rows = await tx
-        .select({ row: accessSteps, includes: sql<string[]>`coalesce(array_agg(${included.code} order by ${included.code}) filter (where ${included.code} is not null), '{}')` })
+        .select({
+          row: accessSteps,
+          includes: sql<
+            string[]
+          >`coalesce(array_agg(${included.code} order by ${included.code}) filter (where ${included.code} is not null), '{}')`,
+        })
         .from(accessSteps)
         .leftJoin(accessStepIncludes, eq(accessStepIncludes.stepId, accessSteps.id))
         .leftJoin(included, eq(included.id, accessStepIncludes.includedStepId))
@@ -96,12 +129,19 @@ export function createLabourRepo(db: Database) {
 
     async stepUsage(workshopId: string): Promise<Map<string, number>> {
       const l = labourOperationAccessSteps
-      const rows = await db.select({ stepId: l.accessStepId, n: count() }).from(l).where(eq(l.workshopId, workshopId)).groupBy(l.accessStepId)
+      const rows = await db
+        .select({ stepId: l.accessStepId, n: count() })
+        .from(l)
+        .where(eq(l.workshopId, workshopId))
+        .groupBy(l.accessStepId)
       return new Map(rows.map((r) => [r.stepId, r.n]))
     },
 
     async findStep(workshopId: string, id: string) {
-      const [row] = await db.select().from(accessSteps).where(and(eq(accessSteps.workshopId, workshopId), eq(accessSteps.id, id)))
+      const [row] = await db
+        .select()
+        .from(accessSteps)
+        .where(and(eq(accessSteps.workshopId, workshopId), eq(accessSteps.id, id)))
       return row
     },
 
@@ -120,7 +160,9 @@ export function createLabourRepo(db: Database) {
     async setIncludes(tx: Queryable, workshopId: string, edges: Map<string, string[]>, idOf: (code: string) => string) {
       const stepIds = [...edges.keys()]
       if (stepIds.length === 0) return
-      await tx.delete(accessStepIncludes).where(and(eq(accessStepIncludes.workshopId, workshopId), inArray(accessStepIncludes.stepId, stepIds)))
+      await tx
+        .delete(accessStepIncludes)
+        .where(and(eq(accessStepIncludes.workshopId, workshopId), inArray(accessStepIncludes.stepId, stepIds)))
       const values = [...edges].flatMap(([stepId, codes]) => codes.map((code) => ({ workshopId, stepId, includedStepId: idOf(code) })))
       for (const chunk of chunks(values, 5000)) await tx.insert(accessStepIncludes).values(chunk)
     },
@@ -130,14 +172,21 @@ export function createLabourRepo(db: Database) {
       const operationIds = [...steps.keys()]
       if (operationIds.length === 0) return
       for (const ids of chunks(operationIds, 5000)) {
-        await tx.delete(labourOperationAccessSteps).where(and(eq(labourOperationAccessSteps.workshopId, workshopId), inArray(labourOperationAccessSteps.operationId, ids)))
+        await tx
+          .delete(labourOperationAccessSteps)
+          .where(and(eq(labourOperationAccessSteps.workshopId, workshopId), inArray(labourOperationAccessSteps.operationId, ids)))
       }
-      const values = [...steps].flatMap(([operationId, codes]) => codes.map((code, position) => ({ workshopId, operationId, accessStepId: idOf(code), position })))
+      const values = [...steps].flatMap(([operationId, codes]) =>
+        codes.map((code, position) => ({ workshopId, operationId, accessStepId: idOf(code), position })),
+      )
       for (const chunk of chunks(values, 5000)) await tx.insert(labourOperationAccessSteps).values(chunk)
     },
 
     async jobExists(workshopId: string, jobId: string) {
-      const [row] = await db.select({ id: jobs.id }).from(jobs).where(and(eq(jobs.workshopId, workshopId), eq(jobs.id, jobId)))
+      const [row] = await db
+        .select({ id: jobs.id })
+        .from(jobs)
+        .where(and(eq(jobs.workshopId, workshopId), eq(jobs.id, jobId)))
       return Boolean(row)
     },
 

@@ -40,7 +40,12 @@ interface GraphStep {
 type Graph = Map<string, GraphStep>
 
 const graphOf = (steps: StepWithIncludes[]): Graph =>
-  new Map(steps.map((s) => [s.row.code, { id: s.row.id, code: s.row.code, name: s.row.name, hours: normalizeDecimal(s.row.hours), includes: s.includes }]))
+  new Map(
+    steps.map((s) => [
+      s.row.code,
+      { id: s.row.id, code: s.row.code, name: s.row.name, hours: normalizeDecimal(s.row.hours), includes: s.includes },
+    ]),
+  )
 
 const inputOf = (row: OperationRecord, stepCodes: string[]): LabourOperationInput => ({
   code: row.code,
@@ -64,7 +69,13 @@ function bookTimeIssue(bookHours: string, stepCodes: string[], graph: Graph): st
 
 function operationIssues(input: LabourOperationInput, graph: Graph): { field: string; message: string }[] {
   const unknown = input.accessSteps.filter((c) => !graph.has(c))
-  if (unknown.length > 0) return [{ field: 'accessSteps', message: `No access step with the code ${unknown.map((c) => `"${c}"`).join(', ')}. Add it under Access steps first.` }]
+  if (unknown.length > 0)
+    return [
+      {
+        field: 'accessSteps',
+        message: `No access step with the code ${unknown.map((c) => `"${c}"`).join(', ')}. Add it under Access steps first.`,
+      },
+    ]
   const duplicate = input.accessSteps.find((c, i) => input.accessSteps.indexOf(c) !== i)
   if (duplicate) return [{ field: 'accessSteps', message: `"${duplicate}" is listed twice.` }]
   const tooLong = bookTimeIssue(input.bookHours, input.accessSteps, graph)
@@ -79,11 +90,13 @@ const loopMessage = (loop: string[]) => `Access steps cannot include each other 
  */
 function stepGraphIssues(graph: Graph, changes: AccessStepInput[], operations: { code: string; bookHours: string; steps: string[] }[]) {
   const next: Graph = new Map(graph)
-  for (const c of changes) next.set(c.code, { id: graph.get(c.code)?.id ?? '', code: c.code, name: c.name, hours: c.hours, includes: c.includes })
+  for (const c of changes)
+    next.set(c.code, { id: graph.get(c.code)?.id ?? '', code: c.code, name: c.name, hours: c.hours, includes: c.includes })
   const issues: { code: string; field: 'includes' | 'hours'; message: string }[] = []
   for (const c of changes) {
     const unknown = c.includes.filter((code) => !next.has(code))
-    if (unknown.length > 0) issues.push({ code: c.code, field: 'includes', message: `No access step with the code ${unknown.map((u) => `"${u}"`).join(', ')}.` })
+    if (unknown.length > 0)
+      issues.push({ code: c.code, field: 'includes', message: `No access step with the code ${unknown.map((u) => `"${u}"`).join(', ')}.` })
     if (c.includes.includes(c.code)) issues.push({ code: c.code, field: 'includes', message: 'A step cannot include itself.' })
   }
   if (issues.length > 0) return issues
@@ -102,7 +115,11 @@ function stepGraphIssues(graph: Graph, changes: AccessStepInput[], operations: {
     if (!problem) continue
     // Charged to a changed step the operation reaches, so the owner sees which change causes it.
     const culprit = [...changedCodes].find((code) => accessHours(op.steps, next) !== accessHours(op.steps, withoutStep(next, code)))
-    issues.push({ code: culprit ?? changes[0]?.code ?? '', field: 'hours', message: `Operation ${op.code} would book less than its access time: ${problem}` })
+    issues.push({
+      code: culprit ?? changes[0]?.code ?? '',
+      field: 'hours',
+      message: `Operation ${op.code} would book less than its access time: ${problem}`,
+    })
   }
   return issues
 }
@@ -114,7 +131,8 @@ const withoutStep = (graph: Graph, code: string): Graph => {
   return copy
 }
 
-const bodyIssues = (issues: { field: string; message: string }[]): ErrorIssue[] => issues.map((i) => ({ path: ['body', i.field], message: i.message }))
+const bodyIssues = (issues: { field: string; message: string }[]): ErrorIssue[] =>
+  issues.map((i) => ({ path: ['body', i.field], message: i.message }))
 
 export function createLabourService(deps: { repo: LabourRepo; pricing: PricingRepo }) {
   const { repo, pricing } = deps
@@ -149,7 +167,13 @@ export function createLabourService(deps: { repo: LabourRepo; pricing: PricingRe
   /** `stepCodes` comes with a search's results; otherwise it is looked up. The step graph is read only when a row needs it. */
   async function present(workshopId: string, rows: OperationRecord[], known?: Map<string, string[]>): Promise<LabourOperation[]> {
     if (rows.length === 0) return []
-    const stepCodes = known ?? (await repo.stepCodesOf(db, workshopId, rows.map((r) => r.id)))
+    const stepCodes =
+      known ??
+      (await repo.stepCodesOf(
+        db,
+        workshopId,
+        rows.map((r) => r.id),
+      ))
     const needsSteps = rows.some((r) => (stepCodes.get(r.id) ?? []).length > 0)
     const [steps, price] = await Promise.all([needsSteps ? repo.steps(db, workshopId) : [], pricing.get(workshopId)])
     const graph = graphOf(steps)
@@ -168,7 +192,8 @@ export function createLabourService(deps: { repo: LabourRepo; pricing: PricingRe
     const savedId = await db.transaction(async (tx) => {
       const graph = graphOf(await repo.steps(tx, workshopId))
       const issues = operationIssues(input, graph)
-      if (issues.length > 0) throw new ValidationError('Some of the details are not right. Please check the highlighted fields.', bodyIssues(issues))
+      if (issues.length > 0)
+        throw new ValidationError('Some of the details are not right. Please check the highlighted fields.', bodyIssues(issues))
       const values = {
         code: input.code,
         name: input.name,
@@ -217,7 +242,11 @@ export function createLabourService(deps: { repo: LabourRepo; pricing: PricingRe
 
   /** Operations that reach any of the steps, with what they book, for the access-time rule. */
   async function operationsReaching(tx: Queryable, workshopId: string, graph: Graph) {
-    const rows = await repo.operationsUsingSteps(tx, workshopId, [...graph.values()].map((s) => s.id))
+    const rows = await repo.operationsUsingSteps(
+      tx,
+      workshopId,
+      [...graph.values()].map((s) => s.id),
+    )
     const stepCodes = await repo.stepCodesOf(tx, workshopId)
     return rows.map(({ row }) => ({ code: row.code, bookHours: normalizeDecimal(row.bookHours), steps: stepCodes.get(row.id) ?? [] }))
   }
@@ -235,7 +264,8 @@ export function createLabourService(deps: { repo: LabourRepo; pricing: PricingRe
         for (const s of graph.values()) s.includes = s.includes.map(renamed)
       }
       const issues = stepGraphIssues(graph, [input], operations)
-      if (issues.length > 0) throw new ValidationError('Some of the details are not right. Please check the highlighted fields.', bodyIssues(issues))
+      if (issues.length > 0)
+        throw new ValidationError('Some of the details are not right. Please check the highlighted fields.', bodyIssues(issues))
       const values = { code: input.code, name: input.name, hours: input.hours }
       const [row] = await codeTaken(
         () =>
@@ -268,7 +298,13 @@ export function createLabourService(deps: { repo: LabourRepo; pricing: PricingRe
     const stepCodes = await repo.stepCodesOf(tx, workshopId)
     const existing = new Map([...stored].map(([code, row]) => [code, inputOf(row, stepCodes.get(row.id) ?? [])]))
     const check = (rows: PlannedRow<LabourOperationInput>[]): ImportIssue[] =>
-      rows.flatMap((r) => operationIssues(r.input, graph).map((i) => ({ row: r.row, column: operationTable.fieldColumns[i.field] ?? null, message: i.message })))
+      rows.flatMap((r) =>
+        operationIssues(r.input, graph).map((i) => ({
+          row: r.row,
+          column: operationTable.fieldColumns[i.field] ?? null,
+          message: i.message,
+        })),
+      )
     return { plan: planImport(operationTable, text, existing, check), graph, stored }
   }
 
@@ -279,7 +315,11 @@ export function createLabourService(deps: { repo: LabourRepo; pricing: PricingRe
     const check = (rows: PlannedRow<AccessStepInput>[]): ImportIssue[] => {
       const rowOf = new Map(rows.map((r) => [r.input.code, r.row]))
       const changes = rows.filter((r) => r.action !== 'keep').map((r) => r.input)
-      return stepGraphIssues(graph, changes, operations).map((i) => ({ row: rowOf.get(i.code) ?? 1, column: stepTable.fieldColumns[i.field] ?? null, message: i.message }))
+      return stepGraphIssues(graph, changes, operations).map((i) => ({
+        row: rowOf.get(i.code) ?? 1,
+        column: stepTable.fieldColumns[i.field] ?? null,
+        message: i.message,
+      }))
     }
     return planImport(stepTable, text, existing, check)
   }
@@ -322,7 +362,11 @@ export function createLabourService(deps: { repo: LabourRepo; pricing: PricingRe
     updateStep: (workshopId: string, id: string, input: AccessStepInput) => saveStep(workshopId, id, input),
     async removeStep(workshopId: string, id: string) {
       const removed = await deleteOrRefuse(
-        () => db.delete(accessSteps).where(and(eq(accessSteps.workshopId, workshopId), eq(accessSteps.id, id))).returning({ id: accessSteps.id }),
+        () =>
+          db
+            .delete(accessSteps)
+            .where(and(eq(accessSteps.workshopId, workshopId), eq(accessSteps.id, id)))
+            .returning({ id: accessSteps.id }),
         'Operations or other access steps use this step, so it cannot be deleted. Take it off them first.',
       )
       if (removed.length === 0) throw new NotFoundError('No such access step in this workshop.')
@@ -332,7 +376,13 @@ export function createLabourService(deps: { repo: LabourRepo; pricing: PricingRe
       const workshopId = me.workshop.id
       if (!(await repo.findOperation(workshopId, operationId))) throw new NotFoundError('No such labour operation in this workshop.')
       if (input.jobId && !(await repo.jobExists(workshopId, input.jobId))) throw new NotFoundError('No such job in this workshop.')
-      const row = await repo.insertClockTime({ workshopId, operationId, jobId: input.jobId ?? null, technicianId: me.id, hours: input.hours })
+      const row = await repo.insertClockTime({
+        workshopId,
+        operationId,
+        jobId: input.jobId ?? null,
+        technicianId: me.id,
+        hours: input.hours,
+      })
       return {
         id: row.id,
         operationId: row.operationId,

@@ -13,7 +13,10 @@ const optional = (v: string | undefined) => (v ?? '').trim()
 export function partTable(exponent: number, defaultTaxRate: string): ImportTable<PartInput> {
   const money = (v: string | undefined) => parseMajorUnits(optional(v), exponent)
   const example = exponent > 0 ? `12.${'5'.padEnd(exponent, '0')}` : '1250'
-  const moneyIssue = (column: string, what: string) => ({ column, message: `Write the ${what} as a number like ${example}, without a currency sign or thousands separators.` })
+  const moneyIssue = (column: string, what: string) => ({
+    column,
+    message: `Write the ${what} as a number like ${example}, without a currency sign or thousands separators.`,
+  })
   return {
     columns: [
       { name: 'part_number', required: true },
@@ -38,9 +41,13 @@ export function partTable(exponent: number, defaultTaxRate: string): ImportTable
     cellIssues(c) {
       const issues: { column: string; message: string }[] = []
       if (money(c.cost) === null) issues.push(moneyIssue('cost', 'cost'))
-      if (optional(c.sell_price) !== '' && money(c.sell_price) === null) issues.push(moneyIssue('sell_price', 'sell price, or leave it empty to use the markup bands,'))
+      if (optional(c.sell_price) !== '' && money(c.sell_price) === null)
+        issues.push(moneyIssue('sell_price', 'sell price, or leave it empty to use the markup bands,'))
       if (optional(c.stock_quantity) !== '' && !/^\d{1,7}$/.test(optional(c.stock_quantity))) {
-        issues.push({ column: 'stock_quantity', message: 'Write the stock as a whole number, or leave it empty if you do not count this part.' })
+        issues.push({
+          column: 'stock_quantity',
+          message: 'Write the stock as a whole number, or leave it empty if you do not count this part.',
+        })
       }
       return issues
     },

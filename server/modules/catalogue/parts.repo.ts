@@ -18,7 +18,16 @@ export function createPartsRepo(db: Database) {
       const filters = q.archived ? isNotNull(parts.archivedAt) : isNull(parts.archivedAt)
       const offset = (q.page - 1) * q.pageSize
       if (q.q) {
-        const { rows, total } = await rankedSearch(db, { workshopId, source: 'parts', table: parts, q: q.q, where: filters as SQL, sortName: sql`${parts.partNumber}`, limit: q.pageSize, offset })
+        const { rows, total } = await rankedSearch(db, {
+          workshopId,
+          source: 'parts',
+          table: parts,
+          q: q.q,
+          where: filters as SQL,
+          sortName: sql`${parts.partNumber}`,
+          limit: q.pageSize,
+          offset,
+        })
         return { rows, total }
       }
       const scoped = and(eq(parts.workshopId, workshopId), filters)
@@ -30,7 +39,10 @@ export function createPartsRepo(db: Database) {
     },
 
     async find(workshopId: string, id: string) {
-      const [row] = await db.select().from(parts).where(and(eq(parts.workshopId, workshopId), eq(parts.id, id)))
+      const [row] = await db
+        .select()
+        .from(parts)
+        .where(and(eq(parts.workshopId, workshopId), eq(parts.id, id)))
       return row
     },
 

@@ -112,7 +112,12 @@ export function createPartsService(deps: { repo: PartsRepo; pricing: PricingRepo
         for (const chunk of chunks(writes, 2000)) await repo.upsert(tx, workshopId, chunk)
         return reportOf(p, table, true)
       })
-      await recordAudit(db, req, { action: 'settings.changed', workshopId, subject: { type: 'parts', id: workshopId }, details: { imported: 'parts', ...report.summary } })
+      await recordAudit(db, req, {
+        action: 'settings.changed',
+        workshopId,
+        subject: { type: 'parts', id: workshopId },
+        details: { imported: 'parts', ...report.summary },
+      })
       return report
     },
 
@@ -124,7 +129,12 @@ export function createPartsService(deps: { repo: PartsRepo; pricing: PricingRepo
         .sort((a, b) => a.partNumber.localeCompare(b.partNumber))
         .map((r) => {
           const cells = table.cells(inputOf(r))
-          return { ...cells, part_number: guardText(cells.part_number ?? ''), description: guardText(cells.description ?? ''), supplier_ref: guardText(cells.supplier_ref ?? '') }
+          return {
+            ...cells,
+            part_number: guardText(cells.part_number ?? ''),
+            description: guardText(cells.description ?? ''),
+            supplier_ref: guardText(cells.supplier_ref ?? ''),
+          }
         })
       return writeCsv(
         table.columns.map((c) => c.name),

@@ -32,7 +32,10 @@ export function createPricingRepo(db: Database) {
           specialist: row?.specialistRateMinor ?? null,
         },
         defaultTaxRate: row ? normalizeDecimal(row.defaultTaxRate) : DEFAULT_TAX_RATE,
-        markupBands: (found?.bands ?? []).map((b) => ({ fromCostMinor: b.fromCostMinor, markupPercent: normalizeDecimal(b.markupPercent) })),
+        markupBands: (found?.bands ?? []).map((b) => ({
+          fromCostMinor: b.fromCostMinor,
+          markupPercent: normalizeDecimal(b.markupPercent),
+        })),
       }
     },
 

@@ -30,25 +30,41 @@ export function createCustomersRepo(db: Database) {
           .orderBy(q.sortDesc ? desc(column) : asc(column), asc(customers.id))
           .limit(q.pageSize)
           .offset((q.page - 1) * q.pageSize),
-        db.select({ n: count() }).from(customers).where(and(...where)),
+        db
+          .select({ n: count() })
+          .from(customers)
+          .where(and(...where)),
       ])
       return { items, total: total?.n ?? 0 }
     },
     async find(workshopId: string, id: string) {
-      const [row] = await db.select({ row: customers, vehicleCount }).from(customers).where(and(eq(customers.workshopId, workshopId), eq(customers.id, id)))
+      const [row] = await db
+        .select({ row: customers, vehicleCount })
+        .from(customers)
+        .where(and(eq(customers.workshopId, workshopId), eq(customers.id, id)))
       return row
     },
     async insert(workshopId: string, input: CustomerInput) {
-      const [row] = await db.insert(customers).values({ ...input, workshopId }).returning()
+      const [row] = await db
+        .insert(customers)
+        .values({ ...input, workshopId })
+        .returning()
       if (!row) throw new Error('customer insert returned nothing')
       return row
     },
     async update(workshopId: string, id: string, values: Partial<typeof customers.$inferInsert>) {
-      const [row] = await db.update(customers).set(values).where(and(eq(customers.workshopId, workshopId), eq(customers.id, id))).returning()
+      const [row] = await db
+        .update(customers)
+        .set(values)
+        .where(and(eq(customers.workshopId, workshopId), eq(customers.id, id)))
+        .returning()
       return row
     },
     async remove(workshopId: string, id: string) {
-      const rows = await db.delete(customers).where(and(eq(customers.workshopId, workshopId), eq(customers.id, id))).returning({ id: customers.id })
+      const rows = await db
+        .delete(customers)
+        .where(and(eq(customers.workshopId, workshopId), eq(customers.id, id)))
+        .returning({ id: customers.id })
       return rows.length > 0
     },
   }

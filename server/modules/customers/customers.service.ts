@@ -6,7 +6,12 @@ import type { Page } from '../../../shared/schemas/common'
 import type { CustomersRepo } from './customers.repo'
 
 /** PUT replaces the record: an optional field left out is cleared, not kept (drizzle skips undefined). */
-const columns = (input: CustomerInput) => ({ ...input, email: input.email ?? null, phone: input.phone ?? null, postcode: input.postcode ?? null })
+const columns = (input: CustomerInput) => ({
+  ...input,
+  email: input.email ?? null,
+  phone: input.phone ?? null,
+  postcode: input.postcode ?? null,
+})
 
 const toCustomer = (row: typeof customers.$inferSelect, vehicleCount?: number): Customer => ({
   id: row.id,

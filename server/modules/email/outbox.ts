@@ -41,7 +41,9 @@ export interface EmailOutbox {
 }
 
 /** Turns an attachment's reference into its bytes when the message is sent. */
-export type AttachmentRenderers = Partial<Record<OutboundAttachment['type'], (a: { versionId: string; workshopId: string }) => Promise<Uint8Array>>>
+export type AttachmentRenderers = Partial<
+  Record<OutboundAttachment['type'], (a: { versionId: string; workshopId: string }) => Promise<Uint8Array>>
+>
 
 export interface RetryPolicy {
   /** Retries after the first attempt; the message is marked failed when the last one fails. */
@@ -154,11 +156,22 @@ export function createEmailOutbox(deps: OutboxDeps): EmailOutbox {
       const write = async (q: Pick<Database, 'insert' | 'execute'>) => {
         const [row] = await q
           .insert(outboundEmails)
-          .values({ workshopId: message.workshopId, estimateId: message.estimateId ?? null, kind: message.kind, to: message.to, subject: message.subject, message: { ...stored } })
+          .values({
+            workshopId: message.workshopId,
+            estimateId: message.estimateId ?? null,
+            kind: message.kind,
+            to: message.to,
+            subject: message.subject,
+            message: { ...stored },
+          })
           .returning({ id: outboundEmails.id })
         if (!row) throw new Error('outbound e-mail was not recorded')
         await enqueue(q, jobs.boss, s, row.id)
-        await announce(q, { workshopId: message.workshopId, estimateId: message.estimateId ?? null, to: message.to }, `E-mail to ${message.to} queued`)
+        await announce(
+          q,
+          { workshopId: message.workshopId, estimateId: message.estimateId ?? null, to: message.to },
+          `E-mail to ${message.to} queued`,
+        )
         return { id: row.id }
       }
       return tx ? write(tx) : db.transaction(write)
@@ -176,7 +189,10 @@ export function createEmailOutbox(deps: OutboxDeps): EmailOutbox {
         if (!row) throw new NotFoundError('No such e-mail')
         // A queued message already has a job on its way; a second would send it twice.
         if (row.status === 'queued') return
-        await tx.update(outboundEmails).set({ status: 'queued', lastError: null, sentAt: null, queuedAt: new Date() }).where(eq(outboundEmails.id, emailId))
+        await tx
+          .update(outboundEmails)
+          .set({ status: 'queued', lastError: null, sentAt: null, queuedAt: new Date() })
+          .where(eq(outboundEmails.id, emailId))
         await enqueue(tx, jobs.boss, s, emailId)
         await announce(tx, row, `E-mail to ${row.to} queued again`)
       })
@@ -214,7 +230,11 @@ export function createEmailWorker(deps: EmailWorkerDeps): EmailWorker {
     for (const a of attachments) {
       const renderer = deps.attachments[a.type]
       if (!renderer) throw new Error(`No renderer for ${a.type} attachments`)
-      rendered.push({ filename: a.filename, content: await renderer({ versionId: a.versionId, workshopId: row.workshopId }), contentType: 'application/pdf' })
+      rendered.push({
+        filename: a.filename,
+        content: await renderer({ versionId: a.versionId, workshopId: row.workshopId }),
+        contentType: 'application/pdf',
+      })
     }
     return rendered
   }
@@ -266,7 +286,9 @@ export function createEmailWorker(deps: EmailWorkerDeps): EmailWorker {
     await s.ready()
     return db.transaction(async (tx) => {
       // One process sweeps at a time; the others skip rather than queue the same row twice.
-      const locked = await tx.execute<{ locked: boolean }>(sql`select pg_try_advisory_xact_lock(hashtext('tickover.email-outbox.sweep')) as locked`)
+      const locked = await tx.execute<{ locked: boolean }>(
+        sql`select pg_try_advisory_xact_lock(hashtext('tickover.email-outbox.sweep')) as locked`,
+      )
       if (!locked.rows[0]?.locked) return 0
       const orphans = await tx.execute<{ id: string }>(sql`
         select e.id from outbound_emails e

@@ -11,7 +11,11 @@ import { renderEstimatePdf } from './estimate-pdf'
  * confirmed, otherwise with every item proposed. The advisor's download, the customer's download
  * and the e-mail attachment all come from here, so they are the same document.
  */
-export async function renderVersionPdf(db: Database, workshopId: string, versionId: string): Promise<{ bytes: Uint8Array; filename: string }> {
+export async function renderVersionPdf(
+  db: Database,
+  workshopId: string,
+  versionId: string,
+): Promise<{ bytes: Uint8Array; filename: string }> {
   const [row] = await db
     .select({ version: estimateVersions, confirmation: estimateConfirmations, deposit: depositPayments, timezone: workshops.timezone })
     .from(estimateVersions)
@@ -40,7 +44,12 @@ export async function renderVersionPdf(db: Database, workshopId: string, version
         }
       : null,
     deposit: deposit
-      ? { amountMinor: deposit.amountMinor, status: deposit.status, paidAt: deposit.paidAt?.toISOString() ?? null, refundedMinor: deposit.refundedMinor }
+      ? {
+          amountMinor: deposit.amountMinor,
+          status: deposit.status,
+          paidAt: deposit.paidAt?.toISOString() ?? null,
+          refundedMinor: deposit.refundedMinor,
+        }
       : null,
   })
   return { bytes, filename: `${version.snapshot.reference}-v${version.version}.pdf` }

@@ -9,7 +9,7 @@ import { inflateSync } from 'node:zlib'
 import fontkit from '@pdf-lib/fontkit'
 import { PDFDocument, rgb, type PDFFont, type PDFPage, type RGB } from 'pdf-lib'
 import { formatMoney } from '../../../shared/money'
-import type { EstimateResult, ItemLineResult, ItemResult, ScopeResult } from '../../../shared/schemas/estimate'
+import type { EstimateResult, ItemLineResult, ItemResult, ScopeResult } from '../../../shared/estimate/contract'
 import type { EstimateSnapshot, SnapshotItem } from '../../../shared/schemas/estimates'
 import { severities } from '../../../shared/schemas/severity'
 
@@ -68,7 +68,8 @@ export interface TextMeasure {
 const plainLayoutFontkit: Parameters<PDFDocument['registerFontkit']>[0] = {
   create(bytes, postscriptName) {
     const font = fontkit.create(bytes, postscriptName)
-    const layout = (text: string) => ({ glyphs: Array.from(text, (ch) => font.glyphForCodePoint(ch.codePointAt(0)!)) }) as unknown as ReturnType<typeof font.layout>
+    const layout = (text: string) =>
+      ({ glyphs: Array.from(text, (ch) => font.glyphForCodePoint(ch.codePointAt(0)!)) }) as unknown as ReturnType<typeof font.layout>
     return Object.assign(font, { layout })
   },
 }
@@ -335,9 +336,7 @@ class Writer {
   wrap(text: string, width: number, style: TextStyle = {}): string[] {
     const font = style.font ?? this.regular
     const size = style.size ?? 10
-    return text
-      .split(/\r\n|\r|\n/)
-      .flatMap((paragraph) => wrapText(this.clean(paragraph), font, size, width))
+    return text.split(/\r\n|\r|\n/).flatMap((paragraph) => wrapText(this.clean(paragraph), font, size, width))
   }
 
   firstPage(): void {
@@ -365,7 +364,13 @@ class Writer {
   /** Every string drawn or measured goes through clean(), so a missing glyph can never reach pdf-lib. */
   draw(text: string, x: number, baseline: number, style: TextStyle = {}): void {
     if (text === '') return
-    this.page.drawText(this.clean(text), { x, y: baseline, font: style.font ?? this.regular, size: style.size ?? 10, color: style.color ?? INK })
+    this.page.drawText(this.clean(text), {
+      x,
+      y: baseline,
+      font: style.font ?? this.regular,
+      size: style.size ?? 10,
+      color: style.color ?? INK,
+    })
   }
 
   drawRight(text: string, right: number, baseline: number, style: TextStyle = {}): void {
@@ -615,7 +620,10 @@ function drawItem(
   }
   const needs = item.requires.map((id) => items.get(id)).filter((i): i is SnapshotItem => !!i)
   if (needs.length > 0) {
-    w.paragraph(`Can only be done together with ${needs.map((n) => `item ${n.number}`).join(', ')}.`, ITEM_INDENT, textWidth, { size: 9, color: GREY })
+    w.paragraph(`Can only be done together with ${needs.map((n) => `item ${n.number}`).join(', ')}.`, ITEM_INDENT, textWidth, {
+      size: 9,
+      color: GREY,
+    })
   }
   w.y -= 3
 
@@ -682,7 +690,14 @@ const DEPOSIT_NOTES: Record<NonNullable<ScopeResult['depositAdjustment']>, strin
   'gross-below-minimum': 'none: the total is below the smallest card payment',
 }
 
-function drawTotals(w: Writer, result: EstimateResult, scope: ScopeResult, decided: boolean, deposit: PdfDeposit | null, timezone: string): void {
+function drawTotals(
+  w: Writer,
+  result: EstimateResult,
+  scope: ScopeResult,
+  decided: boolean,
+  deposit: PdfDeposit | null,
+  timezone: string,
+): void {
   const c = result.currency
   const money = (amount: number) => formatMoney(amount, c)
   type Row = { label: string; value: string; strong?: boolean; color?: RGB; ruleAbove?: boolean }
@@ -691,12 +706,18 @@ function drawTotals(w: Writer, result: EstimateResult, scope: ScopeResult, decid
     { label: 'Parts', value: money(scope.parts) },
     { label: 'Fees', value: money(scope.fees) },
   ]
-  if (scope.sharedSaving > 0) rows.push({ label: 'Saved by shared access (already taken off labour)', value: money(scope.sharedSaving), color: COPPER })
+  if (scope.sharedSaving > 0)
+    rows.push({ label: 'Saved by shared access (already taken off labour)', value: money(scope.sharedSaving), color: COPPER })
   if (scope.discount > 0) rows.push({ label: 'Discount', value: `−${money(scope.discount)}` })
   rows.push({ label: 'Net', value: money(scope.net), ruleAbove: true })
   for (const r of scope.taxByRate) rows.push({ label: `VAT ${r.rate}% on net ${money(r.net)}`, value: money(r.tax) })
   if (scope.taxByRate.length > 1) rows.push({ label: 'VAT in total', value: money(scope.tax) })
-  rows.push({ label: decided ? 'Total for approved work' : 'Total if every item is approved', value: money(scope.gross), strong: true, ruleAbove: true })
+  rows.push({
+    label: decided ? 'Total for approved work' : 'Total if every item is approved',
+    value: money(scope.gross),
+    strong: true,
+    ruleAbove: true,
+  })
   const depositNote = scope.depositAdjustment ? ` (${DEPOSIT_NOTES[scope.depositAdjustment]})` : ''
   rows.push({ label: `Deposit due${depositNote}`, value: money(scope.deposit), strong: true })
   if (deposit) rows.push({ label: depositStatus(deposit, c, timezone), value: '', color: GREY })
@@ -706,11 +727,15 @@ function drawTotals(w: Writer, result: EstimateResult, scope: ScopeResult, decid
     : 'The customer decides on each item. These totals are for the whole estimate as proposed; the total changes with the items approved.'
   // Before any decision each item is priced as if approved alone, so with shared access the
   // item totals add up to more than the proposed total.
-  if (!decided && scope.sharedSaving > 0) intro += ' Access work shared between items is charged once, so the total is less than the item totals added up.'
+  if (!decided && scope.sharedSaving > 0)
+    intro += ' Access work shared between items is charged once, so the total is less than the item totals added up.'
   const introLines = w.wrap(intro, RIGHT - LEFT, { size: 9 })
   const labelWidth = 250
   const labelX = RIGHT - 120 - labelWidth
-  const wrapped = rows.map((row) => ({ row, lines: w.wrap(row.label, labelWidth, { font: row.strong ? w.bold : w.regular, size: row.strong ? 10.5 : 9.5 }) }))
+  const wrapped = rows.map((row) => ({
+    row,
+    lines: w.wrap(row.label, labelWidth, { font: row.strong ? w.bold : w.regular, size: row.strong ? 10.5 : 9.5 }),
+  }))
   const height = 18 + introLines.length * 12 + wrapped.reduce((sum, r) => sum + r.lines.length * 14 + (r.row.ruleAbove ? 5 : 0), 0) + 16
 
   w.y -= 8
@@ -757,7 +782,10 @@ function drawDecision(w: Writer, d: PdfDecisionRecord, s: EstimateSnapshot, time
   const rows: { text: string; size: number; color?: RGB }[] = [
     { text: `Confirmed ${dateTimeWithZone(d.confirmedAt, timezone)}`, size: 9.5 },
     { text: `Items approved: ${approved} of ${s.items.length}; declined: ${declined}`, size: 9.5 },
-    { text: `Asked for work to start within the 14-day cancellation period: ${yesNo(d.consents.startWithinCancellationPeriod)}`, size: 9.5 },
+    {
+      text: `Asked for work to start within the 14-day cancellation period: ${yesNo(d.consents.startWithinCancellationPeriod)}`,
+      size: 9.5,
+    },
     { text: `Shown the cancellation information: ${yesNo(d.consents.cancellationInformationShown)}`, size: 9.5 },
     { text: 'Version confirmed (SHA-256 of its content):', size: 9.5 },
     { text: d.versionHash, size: 7.5, color: GREY },

@@ -45,7 +45,13 @@ export function buildSnapshot(s: SnapshotSources): EstimateSnapshot {
       vatNumber: s.workshop.vatNumber,
     },
     customer: { id: s.customer.id, name: s.customer.name, email: s.customer.email },
-    vehicle: { registration: s.vehicle.registration, make: s.vehicle.make, model: s.vehicle.model, year: s.vehicle.year, vin: s.vehicle.vin },
+    vehicle: {
+      registration: s.vehicle.registration,
+      make: s.vehicle.make,
+      model: s.vehicle.model,
+      year: s.vehicle.year,
+      vin: s.vehicle.vin,
+    },
     message: draft.message,
     items: draft.items.map((item, index) => {
       const f = item.findingId ? s.findings?.get(item.findingId) : undefined

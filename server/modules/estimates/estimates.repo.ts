@@ -214,7 +214,13 @@ export function createEstimatesRepo(db: Database) {
     async partsForCodes(q: Queryable, workshopId: string, codes: string[]) {
       if (codes.length === 0) return []
       return q
-        .select({ partNumber: parts.partNumber, description: parts.description, costMinor: parts.costMinor, sellPriceMinor: parts.sellPriceMinor, taxRate: parts.taxRate })
+        .select({
+          partNumber: parts.partNumber,
+          description: parts.description,
+          costMinor: parts.costMinor,
+          sellPriceMinor: parts.sellPriceMinor,
+          taxRate: parts.taxRate,
+        })
         .from(parts)
         .where(
           and(

@@ -17,7 +17,7 @@ import { type EstimatesRepo, type Queryable, type Tx } from './estimates.repo'
 import { buildSnapshot, snapshotHash } from './estimate-snapshot'
 import type { StaffPrincipal } from '../../../shared/schemas/auth'
 import type { Page } from '../../../shared/schemas/common'
-import type { Decision, EstimateResult } from '../../../shared/schemas/estimate'
+import type { Decision, EstimateResult } from '../../../shared/estimate/contract'
 import {
   DEFAULT_ESTIMATE_DEFAULTS,
   EstimateDefaultsSchema,
@@ -82,7 +82,10 @@ export function createEstimatesService(deps: EstimatesServiceDeps) {
   function engineIssues(draft: EstimateDraft, currency: string): ErrorIssue[] {
     const result = safeCalculateEstimate(draftToEngineInput(draft, currency))
     if (result.success) return []
-    return result.issues.map((i) => ({ path: ['draft', ...i.path.map((p) => (typeof p === 'symbol' ? String(p) : p))], message: i.message }))
+    return result.issues.map((i) => ({
+      path: ['draft', ...i.path.map((p) => (typeof p === 'symbol' ? String(p) : p))],
+      message: i.message,
+    }))
   }
 
   function mustExist(row: Row | undefined): Row {
@@ -103,7 +106,12 @@ export function createEstimatesService(deps: EstimatesServiceDeps) {
   // -------------------------------------------------------------------------------------------
   // Items from findings
 
-  async function itemsFromFindings(q: Queryable, workshopId: string, draft: EstimateDraft, rows: FindingRow[]): Promise<{ items: DraftItem[]; accessSteps: EstimateDraft['accessSteps']; notices: string[] }> {
+  async function itemsFromFindings(
+    q: Queryable,
+    workshopId: string,
+    draft: EstimateDraft,
+    rows: FindingRow[],
+  ): Promise<{ items: DraftItem[]; accessSteps: EstimateDraft['accessSteps']; notices: string[] }> {
     const price = await pricing.get(workshopId)
     const notices: string[] = []
     const wanted = new Set<string>()
@@ -139,7 +147,10 @@ export function createEstimatesService(deps: EstimatesServiceDeps) {
           notices.push(`"${f.title}": the suggested labour ${code} is not in your labour-time table; add the labour by hand.`)
           continue
         }
-        if (op.rateMinor === null) notices.push(`"${f.title}": no hourly rate is set for ${op.category} labour, so ${op.code} is priced at 0 until the owner sets it.`)
+        if (op.rateMinor === null)
+          notices.push(
+            `"${f.title}": no hourly rate is set for ${op.category} labour, so ${op.code} is priced at 0 until the owner sets it.`,
+          )
         for (const s of op.accessSteps) addStep(s.code)
         lines.push({
           id: randomUUID(),
@@ -163,7 +174,9 @@ export function createEstimatesService(deps: EstimatesServiceDeps) {
         }
         // Parts carry no vehicle group, so when several variants match the first is only a guess.
         if (!exact && variants.length > 1) {
-          notices.push(`"${f.title}": ${variants.length} parts match ${code} (${variants.map((v) => v.partNumber).join(', ')}); ${part.partNumber} was added — check it is the right one for this vehicle.`)
+          notices.push(
+            `"${f.title}": ${variants.length} parts match ${code} (${variants.map((v) => v.partNumber).join(', ')}); ${part.partNumber} was added — check it is the right one for this vehicle.`,
+          )
         }
         const sell = sellPrice(part, price.markupBands, price.currency)
         if (!sell) notices.push(`"${f.title}": ${part.partNumber} has no price (no markup band covers its cost), so it is priced at 0.`)
@@ -207,11 +220,13 @@ export function createEstimatesService(deps: EstimatesServiceDeps) {
     const decisions = latest ? await repo.decisions(q, workshopId, latest.version.id) : []
     let decided: EstimateResult | null = null
     if (latest) {
-      const chosen: Record<string, Decision> = latest.confirmation?.decisions ?? Object.fromEntries(decisions.map((d) => [d.itemId, d.decision]))
+      const chosen: Record<string, Decision> =
+        latest.confirmation?.decisions ?? Object.fromEntries(decisions.map((d) => [d.itemId, d.decision]))
       decided = latest.confirmation?.result ?? calculateEstimate(snapshotToEngineInput(latest.version.snapshot, chosen))
     }
     const usedBy = new Map<string, string[]>()
-    for (const item of row.estimate.draft.items) if (item.findingId) usedBy.set(item.findingId, [...(usedBy.get(item.findingId) ?? []), item.id])
+    for (const item of row.estimate.draft.items)
+      if (item.findingId) usedBy.set(item.findingId, [...(usedBy.get(item.findingId) ?? []), item.id])
     const iso = (d: Date | null) => (d ? d.toISOString() : null)
     return {
       id: row.estimate.id,
@@ -251,7 +266,14 @@ export function createEstimatesService(deps: EstimatesServiceDeps) {
       })),
       findings: findingRows
         .filter((f) => f.severity !== 'ok')
-        .map((f) => ({ id: f.id, title: f.title, severity: f.severity, position: f.position, measurement: f.measurement, usedByItemIds: usedBy.get(f.id) ?? [] })),
+        .map((f) => ({
+          id: f.id,
+          title: f.title,
+          severity: f.severity,
+          position: f.position,
+          measurement: f.measurement,
+          usedByItemIds: usedBy.get(f.id) ?? [],
+        })),
       withdrawnAt: iso(row.estimate.withdrawnAt),
       createdAt: row.estimate.createdAt.toISOString(),
       updatedAt: row.estimate.updatedAt.toISOString(),
@@ -282,7 +304,9 @@ export function createEstimatesService(deps: EstimatesServiceDeps) {
     const ref = `${snapshot.reference}${snapshot.version > 1 ? ` (version ${snapshot.version})` : ''}`
     const shop = snapshot.workshop.name
     const vehicle = `${snapshot.vehicle.make} ${snapshot.vehicle.model} (${snapshot.vehicle.registration})`
-    const updated = supersedes ? 'We have updated the estimate we sent earlier; this one replaces it, so please decide on each item again.' : ''
+    const updated = supersedes
+      ? 'We have updated the estimate we sent earlier; this one replaces it, so please decide on each item again.'
+      : ''
     const text = [
       `Dear ${snapshot.customer.name},`,
       '',
@@ -359,7 +383,11 @@ ${updated ? `<p>${escapeHtml(updated)}</p>` : ''}
         // One open estimate per job: revisions are versions of it, not new estimates.
         await tx.execute(sql`select pg_advisory_xact_lock(hashtextextended(${`estimate-job:${input.jobId}`}, 0))`)
         const open = await repo.openEstimateForJob(tx, workshopId, input.jobId)
-        if (open) throw new ConflictError(`This job already has estimate ${estimateReference(open.number)}; open it to make changes.`, 'estimate_exists')
+        if (open)
+          throw new ConflictError(
+            `This job already has estimate ${estimateReference(open.number)}; open it to make changes.`,
+            'estimate_exists',
+          )
         const defaults = defaultsOf(job.workshop.estimateDefaults)
         let draft: EstimateDraft = {
           items: [],
@@ -375,18 +403,38 @@ ${updated ? `<p>${escapeHtml(updated)}</p>` : ''}
         if (input.findingIds.length > 0) {
           const rows = await repo.findingsByIds(tx, workshopId, input.findingIds)
           const strays = input.findingIds.filter((fid) => !rows.some((r) => r.id === fid && r.jobId === input.jobId))
-          if (strays.length > 0) throw new ValidationError('Some findings are not from this job.', strays.map(() => ({ path: ['findingIds'], message: 'Not a finding of this job' })))
-          const built = await itemsFromFindings(tx, workshopId, draft, input.findingIds.map((fid) => rows.find((r) => r.id === fid) as FindingRow))
+          if (strays.length > 0)
+            throw new ValidationError(
+              'Some findings are not from this job.',
+              strays.map(() => ({ path: ['findingIds'], message: 'Not a finding of this job' })),
+            )
+          const built = await itemsFromFindings(
+            tx,
+            workshopId,
+            draft,
+            input.findingIds.map((fid) => rows.find((r) => r.id === fid) as FindingRow),
+          )
           draft = { ...draft, items: built.items, accessSteps: built.accessSteps }
           notices = built.notices
         }
         const number = await repo.nextNumber(tx, workshopId)
-        const [estimate] = await tx.insert(estimates).values({ workshopId, jobId: input.jobId, number, draft, createdBy: me.id }).returning()
+        const [estimate] = await tx
+          .insert(estimates)
+          .values({ workshopId, jobId: input.jobId, number, draft, createdBy: me.id })
+          .returning()
         if (!estimate) throw new Error('estimate insert returned nothing')
         if (job.job.status === 'booked_in' || job.job.status === 'inspecting') {
-          await tx.update(jobs).set({ status: 'quoting' }).where(and(eq(jobs.workshopId, workshopId), eq(jobs.id, job.job.id)))
+          await tx
+            .update(jobs)
+            .set({ status: 'quoting' })
+            .where(and(eq(jobs.workshopId, workshopId), eq(jobs.id, job.job.id)))
         }
-        await recordAudit(tx, req, { action: 'estimate.created', workshopId, subject: { type: 'estimate', id: estimate.id }, details: { reference: estimateReference(number) } })
+        await recordAudit(tx, req, {
+          action: 'estimate.created',
+          workshopId,
+          subject: { type: 'estimate', id: estimate.id },
+          details: { reference: estimateReference(number) },
+        })
         await publishLive(tx, { type: 'estimate.changed', workshopId, estimateId: estimate.id, status: 'draft' })
         return { id: estimate.id, notices }
       })
@@ -405,7 +453,9 @@ ${updated ? `<p>${escapeHtml(updated)}</p>` : ''}
         if (findingIds.length > 0) {
           const found = await repo.findingsByIds(tx, workshopId, findingIds)
           const bad = input.draft.items.flatMap((item, index) =>
-            item.findingId && !found.some((f) => f.id === item.findingId && f.jobId === row.estimate.jobId) ? [{ path: ['draft', 'items', index, 'findingId'], message: 'Not a finding of this job' }] : [],
+            item.findingId && !found.some((f) => f.id === item.findingId && f.jobId === row.estimate.jobId)
+              ? [{ path: ['draft', 'items', index, 'findingId'], message: 'Not a finding of this job' }]
+              : [],
           )
           if (bad.length > 0) throw new ValidationError('Some items point at findings of another job.', bad)
         }
@@ -422,10 +472,14 @@ ${updated ? `<p>${escapeHtml(updated)}</p>` : ''}
         refuseStale(row, input.revision)
         const rows = await repo.findingsByIds(tx, workshopId, input.findingIds)
         const ordered = input.findingIds.map((fid) => rows.find((r) => r.id === fid && r.jobId === row.estimate.jobId))
-        if (ordered.some((r) => !r)) throw new ValidationError('Some findings are not from this job.', [{ path: ['findingIds'], message: 'Not a finding of this job' }])
+        if (ordered.some((r) => !r))
+          throw new ValidationError('Some findings are not from this job.', [
+            { path: ['findingIds'], message: 'Not a finding of this job' },
+          ])
         const built = await itemsFromFindings(tx, workshopId, row.estimate.draft, ordered as FindingRow[])
         const draft = { ...row.estimate.draft, items: [...row.estimate.draft.items, ...built.items], accessSteps: built.accessSteps }
-        if (draft.items.length > 200) throw new ValidationError('An estimate holds at most 200 items.', [{ path: ['findingIds'], message: 'Too many items' }])
+        if (draft.items.length > 200)
+          throw new ValidationError('An estimate holds at most 200 items.', [{ path: ['findingIds'], message: 'Too many items' }])
         return { row: await saveDraftRow(tx, row, draft), notices: built.notices }
       })
       return detail(db, result.row, result.notices)
@@ -440,12 +494,18 @@ ${updated ? `<p>${escapeHtml(updated)}</p>` : ''}
         const { draft } = row.estimate
         const problems: ErrorIssue[] = []
         if (draft.items.length === 0) problems.push({ path: ['draft', 'items'], message: 'Add at least one item before sending.' })
-        if (!row.customer.email) problems.push({ path: ['customer', 'email'], message: `${row.customer.name} has no e-mail address; add one to the customer first.` })
+        if (!row.customer.email)
+          problems.push({
+            path: ['customer', 'email'],
+            message: `${row.customer.name} has no e-mail address; add one to the customer first.`,
+          })
         const day = await today(tx, row.workshop.timezone)
-        if (draft.expiresOn < day) problems.push({ path: ['draft', 'expiresOn'], message: 'The expiry date has passed; choose a later date.' })
+        if (draft.expiresOn < day)
+          problems.push({ path: ['draft', 'expiresOn'], message: 'The expiry date has passed; choose a later date.' })
         problems.push(...engineIssues(draft, row.workshop.currency))
         if (problems.length > 0) throw new ValidationError('The estimate cannot be sent yet.', problems)
-        if (row.estimate.sentRevision === row.estimate.revision) throw new ConflictError('This version has already been sent; change something first or send the e-mail again.', 'already_sent')
+        if (row.estimate.sentRevision === row.estimate.revision)
+          throw new ConflictError('This version has already been sent; change something first or send the e-mail again.', 'already_sent')
 
         const versions = await repo.versions(tx, workshopId, id)
         const previous = versions.at(-1)
@@ -454,7 +514,10 @@ ${updated ? `<p>${escapeHtml(updated)}</p>` : ''}
           deps.logger.info({ estimateId: id }, 'sending a new version after a paid deposit')
         }
         const findingIds = draft.items.flatMap((i) => (i.findingId ? [i.findingId] : []))
-        const [findingRows, photoIds] = await Promise.all([repo.findingsByIds(tx, workshopId, findingIds), repo.photoIdsOf(tx, workshopId, findingIds)])
+        const [findingRows, photoIds] = await Promise.all([
+          repo.findingsByIds(tx, workshopId, findingIds),
+          repo.photoIdsOf(tx, workshopId, findingIds),
+        ])
         const version = (previous?.version.version ?? 0) + 1
         const snapshot = buildSnapshot({
           estimate: { id, number: row.estimate.number },
@@ -464,24 +527,46 @@ ${updated ? `<p>${escapeHtml(updated)}</p>` : ''}
           workshop: row.workshop,
           customer: row.customer,
           vehicle: row.vehicle,
-          findings: new Map(findingRows.map((f) => [f.id, { explanation: f.explanation, measurement: f.measurement, photoIds: photoIds.get(f.id) ?? [] }])),
+          findings: new Map(
+            findingRows.map((f) => [f.id, { explanation: f.explanation, measurement: f.measurement, photoIds: photoIds.get(f.id) ?? [] }]),
+          ),
         })
         const result = calculateEstimate(snapshotToEngineInput(snapshot))
         const hash = snapshotHash(snapshot)
         const [saved] = await tx
           .insert(estimateVersions)
-          .values({ workshopId, estimateId: id, version, snapshot, hash, proposedGross: result.proposed.gross, expiresOn: draft.expiresOn, sentBy: me.id })
+          .values({
+            workshopId,
+            estimateId: id,
+            version,
+            snapshot,
+            hash,
+            proposedGross: result.proposed.gross,
+            expiresOn: draft.expiresOn,
+            sentBy: me.id,
+          })
           .returning()
         if (!saved) throw new Error('version insert returned nothing')
         if (previous) {
-          await tx.update(estimateVersions).set({ supersededAt: sql`now()` }).where(and(eq(estimateVersions.workshopId, workshopId), eq(estimateVersions.id, previous.version.id)))
+          await tx
+            .update(estimateVersions)
+            .set({ supersededAt: sql`now()` })
+            .where(and(eq(estimateVersions.workshopId, workshopId), eq(estimateVersions.id, previous.version.id)))
         }
         await revokeEstimateLinks(tx, workshopId, id, saved.id)
-        const expires = await tx.execute<{ at: Date }>(sql`select ((${draft.expiresOn}::date + 1)::timestamp at time zone ${row.workshop.timezone}) as at`)
+        const expires = await tx.execute<{ at: Date }>(
+          sql`select ((${draft.expiresOn}::date + 1)::timestamp at time zone ${row.workshop.timezone}) as at`,
+        )
         const expiresAt = new Date(expires.rows[0]?.at ?? Date.now())
         const token = await issueEstimateLink(tx, { workshopId, versionId: saved.id, customerId: row.customer.id, expiresAt })
-        await tx.update(estimates).set({ sentRevision: row.estimate.revision }).where(and(eq(estimates.workshopId, workshopId), eq(estimates.id, id)))
-        await tx.update(jobs).set({ status: 'waiting_for_customer' }).where(and(eq(jobs.workshopId, workshopId), eq(jobs.id, row.estimate.jobId)))
+        await tx
+          .update(estimates)
+          .set({ sentRevision: row.estimate.revision })
+          .where(and(eq(estimates.workshopId, workshopId), eq(estimates.id, id)))
+        await tx
+          .update(jobs)
+          .set({ status: 'waiting_for_customer' })
+          .where(and(eq(jobs.workshopId, workshopId), eq(jobs.id, row.estimate.jobId)))
         const mail = sentEmail(snapshot, estimateLinkUrl(env.PUBLIC_BASE_URL, token), result.proposed.gross, Boolean(previous))
         await outbox.queue(
           {
@@ -503,7 +588,13 @@ ${updated ? `<p>${escapeHtml(updated)}</p>` : ''}
           subject: { type: 'estimate', id },
           details: { reference: snapshot.reference, version, hash, proposedGross: result.proposed.gross, to: row.customer.email },
         })
-        await publishLive(tx, { type: 'estimate.sent', workshopId, estimateId: id, status: 'sent', summary: `${snapshot.reference} version ${version} sent to ${row.customer.name}` })
+        await publishLive(tx, {
+          type: 'estimate.sent',
+          workshopId,
+          estimateId: id,
+          status: 'sent',
+          summary: `${snapshot.reference} version ${version} sent to ${row.customer.name}`,
+        })
         return id
       })
       return detail(db, await load(db, workshopId, sentId))
@@ -514,9 +605,17 @@ ${updated ? `<p>${escapeHtml(updated)}</p>` : ''}
       await db.transaction(async (tx) => {
         const row = await load(tx, workshopId, id, true)
         refuseWithdrawn(row)
-        await tx.update(estimates).set({ withdrawnAt: sql`now()` }).where(and(eq(estimates.workshopId, workshopId), eq(estimates.id, id)))
+        await tx
+          .update(estimates)
+          .set({ withdrawnAt: sql`now()` })
+          .where(and(eq(estimates.workshopId, workshopId), eq(estimates.id, id)))
         await revokeEstimateLinks(tx, workshopId, id)
-        await recordAudit(tx, req, { action: 'estimate.withdrawn', workshopId, subject: { type: 'estimate', id }, details: { reference: estimateReference(row.estimate.number) } })
+        await recordAudit(tx, req, {
+          action: 'estimate.withdrawn',
+          workshopId,
+          subject: { type: 'estimate', id },
+          details: { reference: estimateReference(row.estimate.number) },
+        })
         await publishLive(tx, { type: 'estimate.withdrawn', workshopId, estimateId: id, status: 'withdrawn' })
       })
       return detail(db, await load(db, workshopId, id))
@@ -548,7 +647,12 @@ ${updated ? `<p>${escapeHtml(updated)}</p>` : ''}
     async saveDefaults(req: Request, me: StaffPrincipal, input: EstimateDefaults): Promise<EstimateDefaults> {
       const before = await this.getDefaults(me.workshop.id)
       await db.update(workshops).set({ estimateDefaults: input }).where(eq(workshops.id, me.workshop.id))
-      await recordAudit(db, req, { action: 'settings.changed', workshopId: me.workshop.id, subject: { type: 'estimate-defaults', id: me.workshop.id }, details: { changed: { 'estimate defaults': { from: JSON.stringify(before), to: JSON.stringify(input) } } } })
+      await recordAudit(db, req, {
+        action: 'settings.changed',
+        workshopId: me.workshop.id,
+        subject: { type: 'estimate-defaults', id: me.workshop.id },
+        details: { changed: { 'estimate defaults': { from: JSON.stringify(before), to: JSON.stringify(input) } } },
+      })
       return input
     },
   }

@@ -10,10 +10,17 @@ export function createInspectionsRepo(db: Database) {
     transaction: <T>(fn: (tx: Tx) => Promise<T>) => db.transaction(fn),
 
     templates(workshopId: string) {
-      return db.select().from(checkTemplates).where(and(eq(checkTemplates.workshopId, workshopId), isNull(checkTemplates.archivedAt))).orderBy(asc(checkTemplates.name))
+      return db
+        .select()
+        .from(checkTemplates)
+        .where(and(eq(checkTemplates.workshopId, workshopId), isNull(checkTemplates.archivedAt)))
+        .orderBy(asc(checkTemplates.name))
     },
     async template(workshopId: string, id: string) {
-      const [row] = await db.select().from(checkTemplates).where(and(eq(checkTemplates.workshopId, workshopId), eq(checkTemplates.id, id)))
+      const [row] = await db
+        .select()
+        .from(checkTemplates)
+        .where(and(eq(checkTemplates.workshopId, workshopId), eq(checkTemplates.id, id)))
       return row
     },
     /** The template for a vehicle group, else one for every group. */
@@ -21,7 +28,13 @@ export function createInspectionsRepo(db: Database) {
       const rows = await db
         .select()
         .from(checkTemplates)
-        .where(and(eq(checkTemplates.workshopId, workshopId), isNull(checkTemplates.archivedAt), or(isNull(checkTemplates.vehicleGroup), group ? eq(checkTemplates.vehicleGroup, group) : isNull(checkTemplates.vehicleGroup))))
+        .where(
+          and(
+            eq(checkTemplates.workshopId, workshopId),
+            isNull(checkTemplates.archivedAt),
+            or(isNull(checkTemplates.vehicleGroup), group ? eq(checkTemplates.vehicleGroup, group) : isNull(checkTemplates.vehicleGroup)),
+          ),
+        )
         .orderBy(desc(checkTemplates.updatedAt))
       return rows.find((r) => r.vehicleGroup === group && group !== null) ?? rows.find((r) => r.vehicleGroup === null)
     },
@@ -31,7 +44,11 @@ export function createInspectionsRepo(db: Database) {
       return row
     },
     async updateTemplate(workshopId: string, id: string, values: Partial<typeof checkTemplates.$inferInsert>) {
-      const [row] = await db.update(checkTemplates).set(values).where(and(eq(checkTemplates.workshopId, workshopId), eq(checkTemplates.id, id))).returning()
+      const [row] = await db
+        .update(checkTemplates)
+        .set(values)
+        .where(and(eq(checkTemplates.workshopId, workshopId), eq(checkTemplates.id, id)))
+        .returning()
       return row
     },
 
@@ -43,8 +60,17 @@ export function createInspectionsRepo(db: Database) {
         .where(and(eq(jobs.workshopId, workshopId), eq(jobs.id, jobId)))
       return row
     },
-    async setJobStatus(tx: Db, workshopId: string, jobId: string, from: (typeof jobs.$inferSelect.status)[], to: typeof jobs.$inferSelect.status) {
-      await tx.update(jobs).set({ status: to }).where(and(eq(jobs.workshopId, workshopId), eq(jobs.id, jobId), inArray(jobs.status, from)))
+    async setJobStatus(
+      tx: Db,
+      workshopId: string,
+      jobId: string,
+      from: (typeof jobs.$inferSelect.status)[],
+      to: typeof jobs.$inferSelect.status,
+    ) {
+      await tx
+        .update(jobs)
+        .set({ status: to })
+        .where(and(eq(jobs.workshopId, workshopId), eq(jobs.id, jobId), inArray(jobs.status, from)))
     },
 
     async inspection(workshopId: string, id: string) {
@@ -69,7 +95,11 @@ export function createInspectionsRepo(db: Database) {
       return row
     },
     async updateInspection(workshopId: string, id: string, values: Partial<typeof inspections.$inferInsert>, tx: Db = db) {
-      const [row] = await tx.update(inspections).set(values).where(and(eq(inspections.workshopId, workshopId), eq(inspections.id, id))).returning()
+      const [row] = await tx
+        .update(inspections)
+        .set(values)
+        .where(and(eq(inspections.workshopId, workshopId), eq(inspections.id, id)))
+        .returning()
       return row
     },
     results(workshopId: string, inspectionId: string) {
@@ -85,7 +115,14 @@ export function createInspectionsRepo(db: Database) {
         .values(values)
         .onConflictDoUpdate({
           target: [inspectionResults.inspectionId, inspectionResults.checkCode, inspectionResults.position],
-          set: { value: values.value, suggestedSeverity: values.suggestedSeverity, detail: values.detail, note: values.note, recordedBy: values.recordedBy, recordedAt: new Date() },
+          set: {
+            value: values.value,
+            suggestedSeverity: values.suggestedSeverity,
+            detail: values.detail,
+            note: values.note,
+            recordedBy: values.recordedBy,
+            recordedAt: new Date(),
+          },
         })
         .returning()
       if (!row) throw new Error('result upsert returned nothing')
@@ -93,10 +130,17 @@ export function createInspectionsRepo(db: Database) {
     },
 
     findingsOfJob(workshopId: string, jobId: string) {
-      return db.select().from(findings).where(and(eq(findings.workshopId, workshopId), eq(findings.jobId, jobId))).orderBy(asc(findings.createdAt))
+      return db
+        .select()
+        .from(findings)
+        .where(and(eq(findings.workshopId, workshopId), eq(findings.jobId, jobId)))
+        .orderBy(asc(findings.createdAt))
     },
     async finding(workshopId: string, id: string, tx: Db = db) {
-      const [row] = await tx.select().from(findings).where(and(eq(findings.workshopId, workshopId), eq(findings.id, id)))
+      const [row] = await tx
+        .select()
+        .from(findings)
+        .where(and(eq(findings.workshopId, workshopId), eq(findings.id, id)))
       return row
     },
     async findingOfResult(tx: Db, resultId: string) {
@@ -109,27 +153,44 @@ export function createInspectionsRepo(db: Database) {
       return row
     },
     async updateFinding(tx: Db, workshopId: string, id: string, values: Partial<typeof findings.$inferInsert>) {
-      const [row] = await tx.update(findings).set(values).where(and(eq(findings.workshopId, workshopId), eq(findings.id, id))).returning()
+      const [row] = await tx
+        .update(findings)
+        .set(values)
+        .where(and(eq(findings.workshopId, workshopId), eq(findings.id, id)))
+        .returning()
       return row
     },
     async deleteFinding(tx: Db, workshopId: string, id: string) {
-      const rows = await tx.delete(findings).where(and(eq(findings.workshopId, workshopId), eq(findings.id, id))).returning({ id: findings.id })
+      const rows = await tx
+        .delete(findings)
+        .where(and(eq(findings.workshopId, workshopId), eq(findings.id, id)))
+        .returning({ id: findings.id })
       return rows.length > 0
     },
 
     photosOf(workshopId: string, findingIds: string[]) {
       if (findingIds.length === 0) return Promise.resolve([])
-      return db.select().from(photos).where(and(eq(photos.workshopId, workshopId), inArray(photos.findingId, findingIds))).orderBy(asc(photos.createdAt))
+      return db
+        .select()
+        .from(photos)
+        .where(and(eq(photos.workshopId, workshopId), inArray(photos.findingId, findingIds)))
+        .orderBy(asc(photos.createdAt))
     },
     async photo(workshopId: string, id: string) {
-      const [row] = await db.select().from(photos).where(and(eq(photos.workshopId, workshopId), eq(photos.id, id)))
+      const [row] = await db
+        .select()
+        .from(photos)
+        .where(and(eq(photos.workshopId, workshopId), eq(photos.id, id)))
       return row
     },
     async insertPhotos(tx: Db, values: (typeof photos.$inferInsert)[]) {
       return tx.insert(photos).values(values).returning()
     },
     async deletePhoto(workshopId: string, id: string) {
-      const [row] = await db.delete(photos).where(and(eq(photos.workshopId, workshopId), eq(photos.id, id))).returning()
+      const [row] = await db
+        .delete(photos)
+        .where(and(eq(photos.workshopId, workshopId), eq(photos.id, id)))
+        .returning()
       return row
     },
   }

@@ -37,9 +37,14 @@ export function inspectionsRoutes(table: RouteTable, service: InspectionsService
   templates.get('/:id', read, params, async (req, res) => {
     res.json(await service.template(ws(req), id(req)))
   })
-  templates.post('/:id/copy', manage, validate({ params: IdParamsSchema, body: z.object({ name: z.string().trim().min(1, 'Name the copy').max(120) }) }), async (req, res) => {
-    res.status(201).json(await service.copyTemplate(ws(req), id(req), (req.body as { name: string }).name))
-  })
+  templates.post(
+    '/:id/copy',
+    manage,
+    validate({ params: IdParamsSchema, body: z.object({ name: z.string().trim().min(1, 'Name the copy').max(120) }) }),
+    async (req, res) => {
+      res.status(201).json(await service.copyTemplate(ws(req), id(req), (req.body as { name: string }).name))
+    },
+  )
   templates.put('/:id', manage, validate({ params: IdParamsSchema, body: CheckTemplateInputSchema }), async (req, res) => {
     res.json(await service.updateTemplate(ws(req), id(req), req.body as CheckTemplateInput))
   })
@@ -72,9 +77,14 @@ export function inspectionsRoutes(table: RouteTable, service: InspectionsService
   inspections.put('/:id/results', inspect, validate({ params: IdParamsSchema, body: RecordResultSchema }), async (req, res) => {
     res.json(await service.recordResult(staffOf(req), id(req), req.body as RecordResult))
   })
-  inspections.put('/:id/notes', inspect, validate({ params: IdParamsSchema, body: z.object({ notes: z.string().max(5000) }) }), async (req, res) => {
-    res.json(await service.saveNotes(ws(req), id(req), (req.body as { notes: string }).notes))
-  })
+  inspections.put(
+    '/:id/notes',
+    inspect,
+    validate({ params: IdParamsSchema, body: z.object({ notes: z.string().max(5000) }) }),
+    async (req, res) => {
+      res.json(await service.saveNotes(ws(req), id(req), (req.body as { notes: string }).notes))
+    },
+  )
   inspections.post('/:id/finish', inspect, params, async (req, res) => {
     res.json(await service.finish(ws(req), id(req)))
   })
@@ -108,7 +118,10 @@ export function inspectionsRoutes(table: RouteTable, service: InspectionsService
       const { data, contentType } = await service.photoFile(ws(req), id(req), variant)
       res
         .set('Content-Type', contentType)
-        .set('Content-Disposition', `inline; filename="photo-${id(req).slice(0, 8)}${variant === 'thumb' ? '-small' : ''}.${contentType === 'image/png' ? 'png' : 'jpg'}"`)
+        .set(
+          'Content-Disposition',
+          `inline; filename="photo-${id(req).slice(0, 8)}${variant === 'thumb' ? '-small' : ''}.${contentType === 'image/png' ? 'png' : 'jpg'}"`,
+        )
         .set('Cache-Control', 'private, max-age=86400')
         .set('X-Content-Type-Options', 'nosniff')
         .send(data)

@@ -79,7 +79,11 @@ export function createInspectionsService(deps: { repo: InspectionsRepo; storage:
     return shapeInspection(found.inspection, found.technicianName, results)
   }
 
-  function shapeInspection(i: typeof inspections.$inferSelect, technicianName: string | null, results: (typeof inspectionResults.$inferSelect)[]): Inspection {
+  function shapeInspection(
+    i: typeof inspections.$inferSelect,
+    technicianName: string | null,
+    results: (typeof inspectionResults.$inferSelect)[],
+  ): Inspection {
     return {
       id: i.id,
       jobId: i.jobId,
@@ -99,7 +103,8 @@ export function createInspectionsService(deps: { repo: InspectionsRepo; storage:
   async function openInspection(workshopId: string, id: string) {
     const found = await repo.inspection(workshopId, id)
     if (!found) throw notFound('inspection')
-    if (found.inspection.status === 'finished') throw new ConflictError('This inspection is finished. Start a new one to record more.', 'inspection_finished')
+    if (found.inspection.status === 'finished')
+      throw new ConflictError('This inspection is finished. Start a new one to record more.', 'inspection_finished')
     return found.inspection
   }
 
@@ -115,10 +120,22 @@ export function createInspectionsService(deps: { repo: InspectionsRepo; storage:
     async copyTemplate(workshopId: string, id: string, name: string) {
       const source = await repo.template(workshopId, id)
       if (!source) throw notFound('check template')
-      return toTemplate(await repo.insertTemplate({ workshopId, name, vehicleGroup: source.vehicleGroup, definition: source.definition, basedOnId: source.id }))
+      return toTemplate(
+        await repo.insertTemplate({
+          workshopId,
+          name,
+          vehicleGroup: source.vehicleGroup,
+          definition: source.definition,
+          basedOnId: source.id,
+        }),
+      )
     },
     async updateTemplate(workshopId: string, id: string, input: CheckTemplateInput) {
-      const row = await repo.updateTemplate(workshopId, id, { name: input.name, vehicleGroup: input.vehicleGroup ?? null, definition: input.definition })
+      const row = await repo.updateTemplate(workshopId, id, {
+        name: input.name,
+        vehicleGroup: input.vehicleGroup ?? null,
+        definition: input.definition,
+      })
       if (!row) throw notFound('check template')
       return toTemplate(row)
     },
@@ -131,7 +148,9 @@ export function createInspectionsService(deps: { repo: InspectionsRepo; storage:
     async inspectionsOfJob(workshopId: string, jobId: string) {
       if (!(await repo.job(workshopId, jobId))) throw notFound('job')
       const rows = await repo.inspectionsOfJob(workshopId, jobId)
-      return Promise.all(rows.map(async (r) => shapeInspection(r.inspection, r.technicianName, await repo.results(workshopId, r.inspection.id))))
+      return Promise.all(
+        rows.map(async (r) => shapeInspection(r.inspection, r.technicianName, await repo.results(workshopId, r.inspection.id))),
+      )
     },
 
     /** Carries on with an unfinished inspection of the job if there is one; otherwise starts one from the template for the vehicle's group. */
@@ -143,10 +162,19 @@ export function createInspectionsService(deps: { repo: InspectionsRepo; storage:
       if (open) return { inspection: await loadInspection(ws, open.inspection.id), created: false }
       const template = templateId ? await repo.template(ws, templateId) : await repo.templateForGroup(ws, job.vehicleGroup)
       if (!template) {
-        throw new ValidationError('There is no check template for this vehicle. Ask the owner to set one up.', [{ path: ['body', 'templateId'], message: 'Choose a check template' }])
+        throw new ValidationError('There is no check template for this vehicle. Ask the owner to set one up.', [
+          { path: ['body', 'templateId'], message: 'Choose a check template' },
+        ])
       }
       const id = await repo.transaction(async (tx) => {
-        const row = await repo.insertInspection(tx, { workshopId: ws, jobId, templateId: template.id, templateName: template.name, definition: template.definition, technicianId: me.id })
+        const row = await repo.insertInspection(tx, {
+          workshopId: ws,
+          jobId,
+          templateId: template.id,
+          templateName: template.name,
+          definition: template.definition,
+          technicianId: me.id,
+        })
         await repo.setJobStatus(tx, ws, jobId, ['booked_in'], 'inspecting')
         return row.id
       })
@@ -176,15 +204,19 @@ export function createInspectionsService(deps: { repo: InspectionsRepo; storage:
       const inspection = await openInspection(ws, id)
       if (inspection.status === 'safety') throw new ConflictError('Record the safety check before the first reading.', 'safety_first')
       const check = inspection.definition.checks.find((c) => c.code === input.checkCode)
-      if (!check) throw new ValidationError('That check is not on this inspection.', [{ path: ['body', 'checkCode'], message: 'Unknown check' }])
+      if (!check)
+        throw new ValidationError('That check is not on this inspection.', [{ path: ['body', 'checkCode'], message: 'Unknown check' }])
       if (!check.positions.includes(input.position)) {
-        throw new ValidationError('That position does not apply to this check.', [{ path: ['body', 'position'], message: `Choose one of: ${check.positions.join(', ')}` }])
+        throw new ValidationError('That position does not apply to this check.', [
+          { path: ['body', 'position'], message: `Choose one of: ${check.positions.join(', ')}` },
+        ])
       }
       let suggestion
       try {
         suggestion = suggestSeverity(check, input.value)
       } catch (err) {
-        if (err instanceof ResultMismatchError) throw new ValidationError('That reading does not fit this check.', [{ path: ['body', 'value'], message: err.message }])
+        if (err instanceof ResultMismatchError)
+          throw new ValidationError('That reading does not fit this check.', [{ path: ['body', 'value'], message: err.message }])
         throw err
       }
       await repo.transaction(async (tx) => {
@@ -217,7 +249,10 @@ export function createInspectionsService(deps: { repo: InspectionsRepo; storage:
             createdBy: me.id,
           })
         } else if (needsFinding && existing && !existing.reviewedAt) {
-          await repo.updateFinding(tx, ws, existing.id, { severity: suggestion.severity ?? existing.severity, measurement: suggestion.detail })
+          await repo.updateFinding(tx, ws, existing.id, {
+            severity: suggestion.severity ?? existing.severity,
+            measurement: suggestion.detail,
+          })
         } else if (!needsFinding && existing && !existing.reviewedAt) {
           const photoRows = await repo.photosOf(ws, [existing.id])
           if (photoRows.length === 0) await repo.deleteFinding(tx, ws, existing.id)
@@ -240,7 +275,10 @@ export function createInspectionsService(deps: { repo: InspectionsRepo; storage:
     async findingsOfJob(workshopId: string, jobId: string) {
       if (!(await repo.job(workshopId, jobId))) throw notFound('job')
       const rows = await repo.findingsOfJob(workshopId, jobId)
-      const photoRows = await repo.photosOf(workshopId, rows.map((r) => r.id))
+      const photoRows = await repo.photosOf(
+        workshopId,
+        rows.map((r) => r.id),
+      )
       return rows.map((r) => toFinding(r, photoRows))
     },
 
@@ -252,12 +290,16 @@ export function createInspectionsService(deps: { repo: InspectionsRepo; storage:
 
     async addFinding(me: StaffPrincipal, jobId: string, input: FindingInput) {
       if (!(await repo.job(me.workshop.id, jobId))) throw notFound('job')
-      const row = await repo.transaction((tx) => repo.insertFinding(tx, { ...input, measurement: input.measurement ?? null, workshopId: me.workshop.id, jobId, createdBy: me.id }))
+      const row = await repo.transaction((tx) =>
+        repo.insertFinding(tx, { ...input, measurement: input.measurement ?? null, workshopId: me.workshop.id, jobId, createdBy: me.id }),
+      )
       return toFinding(row, [])
     },
 
     async updateFinding(workshopId: string, id: string, input: FindingInput) {
-      const row = await repo.transaction((tx) => repo.updateFinding(tx, workshopId, id, { ...input, measurement: input.measurement ?? null }))
+      const row = await repo.transaction((tx) =>
+        repo.updateFinding(tx, workshopId, id, { ...input, measurement: input.measurement ?? null }),
+      )
       if (!row) throw notFound('finding')
       return this.finding(workshopId, id)
     },
@@ -279,7 +321,8 @@ export function createInspectionsService(deps: { repo: InspectionsRepo; storage:
     async addPhotos(me: StaffPrincipal, findingId: string, images: ProcessedImage[]) {
       const ws = me.workshop.id
       if (!(await repo.finding(ws, findingId))) throw notFound('finding')
-      if (images.length === 0) throw new ValidationError('Choose at least one photo.', [{ path: ['body', 'photos'], message: 'Choose at least one photo' }])
+      if (images.length === 0)
+        throw new ValidationError('Choose at least one photo.', [{ path: ['body', 'photos'], message: 'Choose at least one photo' }])
       const written: string[] = []
       try {
         const rows: (typeof photos.$inferInsert)[] = []
@@ -288,7 +331,17 @@ export function createInspectionsService(deps: { repo: InspectionsRepo; storage:
           written.push(storageKey)
           const thumbKey = await storage.put(image.thumb, 'jpg')
           written.push(thumbKey)
-          rows.push({ workshopId: ws, findingId, storageKey, thumbKey, contentType: image.contentType, width: image.width, height: image.height, bytes: image.full.length, uploadedBy: me.id })
+          rows.push({
+            workshopId: ws,
+            findingId,
+            storageKey,
+            thumbKey,
+            contentType: image.contentType,
+            width: image.width,
+            height: image.height,
+            bytes: image.full.length,
+            uploadedBy: me.id,
+          })
         }
         const inserted = await repo.transaction((tx) => repo.insertPhotos(tx, rows))
         return inserted.map(toPhoto)

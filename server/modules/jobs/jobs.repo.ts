@@ -32,7 +32,14 @@ export function createJobsRepo(db: Database) {
         const any = or(ilike(jobs.concern, p), ilike(sql`replace(${vehicles.registration}, ' ', '')`, plate), ilike(customers.name, p))
         if (any) where.push(any)
       }
-      const column = q.sortBy === 'status' ? jobs.status : q.sortBy === 'registration' ? vehicles.registration : q.sortBy === 'bookedFor' ? jobs.bookedFor : jobs.createdAt
+      const column =
+        q.sortBy === 'status'
+          ? jobs.status
+          : q.sortBy === 'registration'
+            ? vehicles.registration
+            : q.sortBy === 'bookedFor'
+              ? jobs.bookedFor
+              : jobs.createdAt
       const descending = q.sortDesc ?? q.sortBy === undefined
       const [items, [total]] = await Promise.all([
         base()
@@ -54,7 +61,10 @@ export function createJobsRepo(db: Database) {
       return row
     },
     async vehicleExists(workshopId: string, vehicleId: string) {
-      const [row] = await db.select({ id: vehicles.id }).from(vehicles).where(and(eq(vehicles.workshopId, workshopId), eq(vehicles.id, vehicleId)))
+      const [row] = await db
+        .select({ id: vehicles.id })
+        .from(vehicles)
+        .where(and(eq(vehicles.workshopId, workshopId), eq(vehicles.id, vehicleId)))
       return Boolean(row)
     },
     async activeStaffExists(workshopId: string, staffId: string) {
@@ -65,16 +75,26 @@ export function createJobsRepo(db: Database) {
       return Boolean(row)
     },
     async insert(workshopId: string, input: JobInput) {
-      const [row] = await db.insert(jobs).values({ ...input, workshopId }).returning()
+      const [row] = await db
+        .insert(jobs)
+        .values({ ...input, workshopId })
+        .returning()
       if (!row) throw new Error('job insert returned nothing')
       return row
     },
     async update(workshopId: string, id: string, input: Partial<JobInput>) {
-      const [row] = await db.update(jobs).set(input).where(and(eq(jobs.workshopId, workshopId), eq(jobs.id, id))).returning()
+      const [row] = await db
+        .update(jobs)
+        .set(input)
+        .where(and(eq(jobs.workshopId, workshopId), eq(jobs.id, id)))
+        .returning()
       return row
     },
     async remove(workshopId: string, id: string) {
-      const rows = await db.delete(jobs).where(and(eq(jobs.workshopId, workshopId), eq(jobs.id, id))).returning({ id: jobs.id })
+      const rows = await db
+        .delete(jobs)
+        .where(and(eq(jobs.workshopId, workshopId), eq(jobs.id, id)))
+        .returning({ id: jobs.id })
       return rows.length > 0
     },
   }

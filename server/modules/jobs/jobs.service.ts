@@ -34,7 +34,8 @@ export function createJobsService(repo: JobsRepo) {
   /** `assigned` is the job's current technician: someone who has since left may stay on the jobs they did. */
   async function checkRefs(workshopId: string, input: JobInput, assigned: string | null = null) {
     const issues: ErrorIssue[] = []
-    if (!(await repo.vehicleExists(workshopId, input.vehicleId))) issues.push({ path: ['body', 'vehicleId'], message: 'Choose a vehicle of this workshop' })
+    if (!(await repo.vehicleExists(workshopId, input.vehicleId)))
+      issues.push({ path: ['body', 'vehicleId'], message: 'Choose a vehicle of this workshop' })
     if (input.technicianId && input.technicianId !== assigned && !(await repo.activeStaffExists(workshopId, input.technicianId))) {
       issues.push({ path: ['body', 'technicianId'], message: 'Choose an active member of this workshop' })
     }
@@ -56,7 +57,12 @@ export function createJobsService(repo: JobsRepo) {
       await checkRefs(workshopId, input, current.row.technicianId)
       // PUT replaces the job: a date or technician left out is cleared, not kept (drizzle skips undefined),
       // which also keeps an old booking date from tripping the promised-after-booked check.
-      const values = { ...input, technicianId: input.technicianId ?? null, bookedFor: input.bookedFor ?? null, promisedFor: input.promisedFor ?? null }
+      const values = {
+        ...input,
+        technicianId: input.technicianId ?? null,
+        bookedFor: input.bookedFor ?? null,
+        promisedFor: input.promisedFor ?? null,
+      }
       if (!(await repo.update(workshopId, id, values))) throw notFound()
       return get(workshopId, id)
     },

@@ -27,10 +27,16 @@ export function createDepositsRepo(db: Database) {
           customer: { id: customers.id, name: customers.name, email: customers.email },
         })
         .from(estimateConfirmations)
-        .innerJoin(estimateVersions, and(eq(estimateVersions.workshopId, estimateConfirmations.workshopId), eq(estimateVersions.id, estimateConfirmations.versionId)))
+        .innerJoin(
+          estimateVersions,
+          and(eq(estimateVersions.workshopId, estimateConfirmations.workshopId), eq(estimateVersions.id, estimateConfirmations.versionId)),
+        )
         .innerJoin(estimates, and(eq(estimates.workshopId, estimateVersions.workshopId), eq(estimates.id, estimateVersions.estimateId)))
         .innerJoin(workshops, eq(workshops.id, estimateConfirmations.workshopId))
-        .innerJoin(customers, and(eq(customers.workshopId, estimateConfirmations.workshopId), eq(customers.id, estimateConfirmations.customerId)))
+        .innerJoin(
+          customers,
+          and(eq(customers.workshopId, estimateConfirmations.workshopId), eq(customers.id, estimateConfirmations.customerId)),
+        )
         .where(eq(estimateConfirmations.id, confirmationId))
       return row
     },
@@ -45,7 +51,10 @@ export function createDepositsRepo(db: Database) {
       const [confirmed] = await db
         .select({ confirmationId: estimateConfirmations.id })
         .from(estimateConfirmations)
-        .innerJoin(estimateVersions, and(eq(estimateVersions.workshopId, estimateConfirmations.workshopId), eq(estimateVersions.id, estimateConfirmations.versionId)))
+        .innerJoin(
+          estimateVersions,
+          and(eq(estimateVersions.workshopId, estimateConfirmations.workshopId), eq(estimateVersions.id, estimateConfirmations.versionId)),
+        )
         .where(and(eq(estimateVersions.workshopId, workshopId), eq(estimateVersions.estimateId, estimateId)))
         .orderBy(desc(estimateVersions.version))
         .limit(1)
@@ -90,7 +99,11 @@ export function createDepositsRepo(db: Database) {
 
     /** True the first time an event id is seen; a concurrent delivery of the same id waits, then gets false. */
     async recordEvent(q: Db, eventId: string, type: string): Promise<boolean> {
-      const inserted = await q.insert(paymentEvents).values({ eventId, type }).onConflictDoNothing({ target: paymentEvents.eventId }).returning({ eventId: paymentEvents.eventId })
+      const inserted = await q
+        .insert(paymentEvents)
+        .values({ eventId, type })
+        .onConflictDoNothing({ target: paymentEvents.eventId })
+        .returning({ eventId: paymentEvents.eventId })
       return inserted.length > 0
     },
   }

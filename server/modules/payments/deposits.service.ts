@@ -73,7 +73,10 @@ export function createDepositsService(deps: DepositsDeps) {
   /** Provider refusals and outages become a 502 the browser can show; the details stay in the log. */
   function refusal(what: string, err: unknown): unknown {
     if (!(err instanceof Stripe.errors.StripeError)) return err
-    logger.error({ err: { type: err.type, code: err.code, message: err.message, requestId: err.requestId, statusCode: err.statusCode } }, `card payment provider refused to ${what}`)
+    logger.error(
+      { err: { type: err.type, code: err.code, message: err.message, requestId: err.requestId, statusCode: err.statusCode } },
+      `card payment provider refused to ${what}`,
+    )
     return new AppError(502, 'payment_provider_error', 'The card payment service could not take the request. Please try again in a moment.')
   }
 
@@ -91,7 +94,14 @@ export function createDepositsService(deps: DepositsDeps) {
     return ctx
   }
 
-  async function sendReceipt(tx: Tx, ctx: Context, kind: 'deposit.paid' | 'deposit.refunded', amountMinor: number, currency: string, log: Logger) {
+  async function sendReceipt(
+    tx: Tx,
+    ctx: Context,
+    kind: 'deposit.paid' | 'deposit.refunded',
+    amountMinor: number,
+    currency: string,
+    log: Logger,
+  ) {
     if (!outbox) return
     const to = ctx.customer.email
     if (!to) {
@@ -102,8 +112,14 @@ export function createDepositsService(deps: DepositsDeps) {
     const amount = formatMoney(amountMinor, currency)
     const lines =
       kind === 'deposit.paid'
-        ? [`Thank you: ${ctx.workshop.name} has received your deposit of ${amount} for estimate ${reference} (version ${version}) for your ${vehicle}.`, 'Keep this e-mail as your receipt.']
-        : [`${ctx.workshop.name} has refunded your deposit of ${amount} for estimate ${reference} (version ${version}) for your ${vehicle}.`, 'A card refund can take several working days to reach your account.']
+        ? [
+            `Thank you: ${ctx.workshop.name} has received your deposit of ${amount} for estimate ${reference} (version ${version}) for your ${vehicle}.`,
+            'Keep this e-mail as your receipt.',
+          ]
+        : [
+            `${ctx.workshop.name} has refunded your deposit of ${amount} for estimate ${reference} (version ${version}) for your ${vehicle}.`,
+            'A card refund can take several working days to reach your account.',
+          ]
     const greeting = `Dear ${ctx.customer.name},`
     const signOff = ctx.workshop.name
     await outbox.queue(
@@ -137,7 +153,16 @@ export function createDepositsService(deps: DepositsDeps) {
       stripe.checkout.sessions.create(
         {
           mode: 'payment',
-          line_items: [{ quantity: 1, price_data: { currency: deposit.currency.toLowerCase(), unit_amount: deposit.amountMinor, product_data: { name: title, description: vehicle } } }],
+          line_items: [
+            {
+              quantity: 1,
+              price_data: {
+                currency: deposit.currency.toLowerCase(),
+                unit_amount: deposit.amountMinor,
+                product_data: { name: title, description: vehicle },
+              },
+            },
+          ],
           customer_email: usableEmail(ctx.customer.email),
           client_reference_id: ctx.confirmation.id,
           metadata,
@@ -187,7 +212,12 @@ export function createDepositsService(deps: DepositsDeps) {
     throw new UnknownPayment(`checkout session ${session.id}`)
   }
 
-  async function sessionCompleted(tx: Tx, event: Stripe.CheckoutSessionCompletedEvent | Stripe.CheckoutSessionAsyncPaymentSucceededEvent, req: Request | null, log: Logger) {
+  async function sessionCompleted(
+    tx: Tx,
+    event: Stripe.CheckoutSessionCompletedEvent | Stripe.CheckoutSessionAsyncPaymentSucceededEvent,
+    req: Request | null,
+    log: Logger,
+  ) {
     const session = event.data.object
     const { deposit, current } = await depositForSession(tx, session)
     if (session.payment_status !== 'paid') return 'not_paid'
@@ -195,12 +225,24 @@ export function createDepositsService(deps: DepositsDeps) {
     if (deposit.status !== 'awaiting_payment') {
       if (deposit.paymentIntentId !== paymentIntentId) {
         // Two payments for one deposit: nothing here can undo it, so staff must refund one by hand.
-        log.error({ depositId: deposit.id, sessionId: session.id, paymentIntentId, kept: deposit.paymentIntentId }, 'a second payment arrived for a deposit already paid')
+        log.error(
+          { depositId: deposit.id, sessionId: session.id, paymentIntentId, kept: deposit.paymentIntentId },
+          'a second payment arrived for a deposit already paid',
+        )
       }
       return 'already_paid'
     }
     if (session.amount_total !== deposit.amountMinor || session.currency?.toUpperCase() !== deposit.currency) {
-      log.error({ depositId: deposit.id, sessionId: session.id, charged: session.amount_total, currency: session.currency, expected: deposit.amountMinor }, 'deposit paid with an amount other than the one asked for')
+      log.error(
+        {
+          depositId: deposit.id,
+          sessionId: session.id,
+          charged: session.amount_total,
+          currency: session.currency,
+          expected: deposit.amountMinor,
+        },
+        'deposit paid with an amount other than the one asked for',
+      )
     }
     if (!current) log.warn({ depositId: deposit.id, sessionId: session.id }, 'deposit paid through an earlier payment page')
     const paid = await repo.update(tx, deposit.id, { status: 'paid', paidAt: new Date(event.created * 1000), paymentIntentId })
@@ -211,7 +253,14 @@ export function createDepositsService(deps: DepositsDeps) {
       workshopId: ctx.workshop.id,
       actor: { kind: 'system', name: 'Card payment' },
       subject: { type: 'estimate', id: ctx.estimate.id },
-      details: { depositId: paid.id, amountMinor: paid.amountMinor, currency: paid.currency, paymentIntentId, sessionId: session.id, eventId: event.id },
+      details: {
+        depositId: paid.id,
+        amountMinor: paid.amountMinor,
+        currency: paid.currency,
+        paymentIntentId,
+        sessionId: session.id,
+        eventId: event.id,
+      },
     })
     await publishLive(tx, {
       type: 'estimate.deposit_paid',
@@ -225,7 +274,13 @@ export function createDepositsService(deps: DepositsDeps) {
     await tx
       .update(jobs)
       .set({ status: 'in_work' })
-      .where(and(eq(jobs.workshopId, ctx.confirmation.workshopId), eq(jobs.id, sql`(select job_id from estimates where id = ${ctx.estimate.id})`), eq(jobs.status, 'waiting_for_customer')))
+      .where(
+        and(
+          eq(jobs.workshopId, ctx.confirmation.workshopId),
+          eq(jobs.id, sql`(select job_id from estimates where id = ${ctx.estimate.id})`),
+          eq(jobs.status, 'waiting_for_customer'),
+        ),
+      )
     return 'paid'
   }
 
@@ -266,7 +321,8 @@ export function createDepositsService(deps: DepositsDeps) {
     async startCheckout(confirmationId: string, urls: CheckoutUrls): Promise<StartCheckoutResult> {
       return repo.transaction(async (tx) => {
         const ctx = await mustContext(tx, confirmationId)
-        if (ctx.estimate.withdrawnAt) throw new ConflictError('This estimate has been withdrawn, so no deposit can be paid on it.', 'estimate_withdrawn')
+        if (ctx.estimate.withdrawnAt)
+          throw new ConflictError('This estimate has been withdrawn, so no deposit can be paid on it.', 'estimate_withdrawn')
         if (ctx.confirmation.depositMinor <= 0) throw new ConflictError('No deposit is due on this estimate.', 'no_deposit_due')
         await repo.ensureDeposit(tx, {
           workshopId: ctx.workshop.id,
@@ -280,9 +336,14 @@ export function createDepositsService(deps: DepositsDeps) {
 
         let attempt = 1
         const previous = deposit.checkoutSessionId ? await findSession(deposit.checkoutSessionId) : null
-        if (deposit.checkoutSessionId && !previous) logger.warn({ depositId: deposit.id, sessionId: deposit.checkoutSessionId }, 'the payment provider no longer knows the last payment page; making a new one')
+        if (deposit.checkoutSessionId && !previous)
+          logger.warn(
+            { depositId: deposit.id, sessionId: deposit.checkoutSessionId },
+            'the payment provider no longer knows the last payment page; making a new one',
+          )
         if (previous) {
-          if (previous.status === 'open' && previous.url && previous.expires_at * 1000 > Date.now()) return { url: previous.url, sessionId: previous.id }
+          if (previous.status === 'open' && previous.url && previous.expires_at * 1000 > Date.now())
+            return { url: previous.url, sessionId: previous.id }
           if (previous.status === 'complete' && previous.payment_status === 'paid') {
             throw new ConflictError('The deposit has been paid; its confirmation is on its way.', 'already_paid')
           }
@@ -349,22 +410,37 @@ export function createDepositsService(deps: DepositsDeps) {
       return repo.transaction(async (tx) => {
         const deposit = await repo.lockByConfirmation(tx, confirmationId)
         if (deposit?.status === 'refunded') throw new ConflictError('The deposit has already been refunded.', 'already_refunded')
-        if (deposit?.status !== 'paid' || !deposit.paymentIntentId) throw new ConflictError('There is no paid deposit to refund on this estimate.', 'not_paid')
+        if (deposit?.status !== 'paid' || !deposit.paymentIntentId)
+          throw new ConflictError('There is no paid deposit to refund on this estimate.', 'not_paid')
         const paymentIntent = deposit.paymentIntentId
         const ctx = await mustContext(tx, confirmationId)
         const refund = await provider('refund a deposit', () =>
           stripe.refunds.create(
-            { payment_intent: paymentIntent, metadata: { depositId: deposit.id, confirmationId, estimateId: ctx.estimate.id, workshopId: ctx.workshop.id } },
+            {
+              payment_intent: paymentIntent,
+              metadata: { depositId: deposit.id, confirmationId, estimateId: ctx.estimate.id, workshopId: ctx.workshop.id },
+            },
             // One refund per deposit, however often the button is pressed or the request retried.
             { idempotencyKey: `refund-${deposit.id}` },
           ),
         )
-        const row = await repo.update(tx, deposit.id, { status: 'refunded', refundId: refund.id, refundedMinor: refund.amount, refundedAt: new Date() })
+        const row = await repo.update(tx, deposit.id, {
+          status: 'refunded',
+          refundId: refund.id,
+          refundedMinor: refund.amount,
+          refundedAt: new Date(),
+        })
         await recordAudit(tx, req, {
           action: 'deposit.refunded',
           workshopId: ctx.workshop.id,
           subject: { type: 'estimate', id: ctx.estimate.id },
-          details: { depositId: row.id, amountMinor: refund.amount, currency: row.currency, refundId: refund.id, paymentIntentId: paymentIntent },
+          details: {
+            depositId: row.id,
+            amountMinor: refund.amount,
+            currency: row.currency,
+            refundId: refund.id,
+            paymentIntentId: paymentIntent,
+          },
         })
         await publishLive(tx, {
           type: 'estimate.deposit_refunded',

@@ -12,7 +12,10 @@ type Tx = Pick<Database, 'insert' | 'update' | 'select'>
  * opens that one estimate and nothing else, and is revoked when a newer version is sent or the
  * estimate is withdrawn.
  */
-export async function issueEstimateLink(tx: Tx, link: { workshopId: string; versionId: string; customerId: string; expiresAt: Date }): Promise<string> {
+export async function issueEstimateLink(
+  tx: Tx,
+  link: { workshopId: string; versionId: string; customerId: string; expiresAt: Date },
+): Promise<string> {
   const token = randomBytes(32).toString('base64url')
   await tx.insert(estimateLinks).values({ ...link, tokenHash: hashToken(token) })
   return token
@@ -20,7 +23,10 @@ export async function issueEstimateLink(tx: Tx, link: { workshopId: string; vers
 
 /** Revokes every live link of the estimate's versions, except those of `keepVersionId`. */
 export async function revokeEstimateLinks(tx: Tx, workshopId: string, estimateId: string, keepVersionId?: string): Promise<void> {
-  const versions = tx.select({ id: estimateVersions.id }).from(estimateVersions).where(and(eq(estimateVersions.workshopId, workshopId), eq(estimateVersions.estimateId, estimateId)))
+  const versions = tx
+    .select({ id: estimateVersions.id })
+    .from(estimateVersions)
+    .where(and(eq(estimateVersions.workshopId, workshopId), eq(estimateVersions.estimateId, estimateId)))
   await tx
     .update(estimateLinks)
     .set({ revokedAt: sql`now()` })

@@ -1,6 +1,6 @@
 import { escapeHtml } from '../../lib/mailer'
 import { formatMoney } from '../../../shared/money'
-import type { EstimateResult } from '../../../shared/schemas/estimate'
+import type { EstimateResult } from '../../../shared/estimate/contract'
 import type { EstimateSnapshot, SnapshotItem } from '../../../shared/schemas/estimates'
 import { CANCELLATION_DAYS, CANCELLATION_NOTICE } from './cancellation'
 
@@ -21,8 +21,10 @@ function render(subject: string, blocks: Block[]): Email {
 ${blocks
   .map((b) => {
     if ('text' in b) return `<p>${escapeHtml(b.text).replace(/\n/g, '<br>')}</p>`
-    if ('link' in b) return `<p><a href="${escapeHtml(b.link)}" style="display:inline-block;background:#1F3A4D;color:#ffffff;padding:12px 20px;border-radius:6px;text-decoration:none">${escapeHtml(b.label)}</a></p>`
-    if ('quote' in b) return `<blockquote style="border-left:4px solid #C8642B;margin:0;padding:4px 12px;color:#333">${escapeHtml(b.quote).replace(/\n/g, '<br>')}</blockquote>`
+    if ('link' in b)
+      return `<p><a href="${escapeHtml(b.link)}" style="display:inline-block;background:#1F3A4D;color:#ffffff;padding:12px 20px;border-radius:6px;text-decoration:none">${escapeHtml(b.label)}</a></p>`
+    if ('quote' in b)
+      return `<blockquote style="border-left:4px solid #C8642B;margin:0;padding:4px 12px;color:#333">${escapeHtml(b.quote).replace(/\n/g, '<br>')}</blockquote>`
     return `<p style="font-size:14px;color:#444">${escapeHtml(b.small).replace(/\n/g, '<br>')}</p>`
   })
   .join('\n')}
@@ -31,7 +33,14 @@ ${blocks
 }
 
 const workshopFooter = (s: EstimateSnapshot): Block => ({
-  small: [s.workshop.name, [...s.workshop.addressLines, s.workshop.postcode].filter(Boolean).join(', '), s.workshop.phone ?? '', s.workshop.email ?? ''].filter(Boolean).join('\n'),
+  small: [
+    s.workshop.name,
+    [...s.workshop.addressLines, s.workshop.postcode].filter(Boolean).join(', '),
+    s.workshop.phone ?? '',
+    s.workshop.email ?? '',
+  ]
+    .filter(Boolean)
+    .join('\n'),
 })
 
 const versionWords = (s: EstimateSnapshot) => `${s.reference}${s.version > 1 ? ` (version ${s.version})` : ''}`
@@ -42,9 +51,13 @@ export const itemWords = (item: Pick<SnapshotItem, 'number' | 'title'>) => `item
 export function renewedLinkEmail(s: EstimateSnapshot, customerName: string, link: string): Email {
   return render(`Your link to estimate ${versionWords(s)} from ${s.workshop.name}`, [
     { text: `Dear ${customerName},` },
-    { text: `Here is a fresh link to estimate ${versionWords(s)} for your ${s.vehicle.make} ${s.vehicle.model} (${s.vehicle.registration}). It is the latest version the workshop has sent you.` },
+    {
+      text: `Here is a fresh link to estimate ${versionWords(s)} for your ${s.vehicle.make} ${s.vehicle.model} (${s.vehicle.registration}). It is the latest version the workshop has sent you.`,
+    },
     { link, label: 'Open the estimate' },
-    { small: `The link works until the end of ${s.expiresOn} and opens this estimate only. If you did not ask for it, you can ignore this e-mail.` },
+    {
+      small: `The link works until the end of ${s.expiresOn} and opens this estimate only. If you did not ask for it, you can ignore this e-mail.`,
+    },
     workshopFooter(s),
   ])
 }
@@ -60,14 +73,23 @@ export function questionEmail(s: EstimateSnapshot, customerName: string, item: S
 }
 
 /** To the customer: the workshop's answer, with a way back to the estimate when it can still be decided. */
-export function answerEmail(s: EstimateSnapshot, customerName: string, item: SnapshotItem | undefined, question: string, answer: string, link: string | null): Email {
+export function answerEmail(
+  s: EstimateSnapshot,
+  customerName: string,
+  item: SnapshotItem | undefined,
+  question: string,
+  answer: string,
+  link: string | null,
+): Email {
   return render(`${s.workshop.name} answered your question on ${s.reference}`, [
     { text: `Dear ${customerName},` },
     { text: `You asked about ${item ? itemWords(item) : 'an item'} on estimate ${versionWords(s)}:` },
     { quote: question },
     { text: `${s.workshop.name} answered:` },
     { quote: answer },
-    link ? { link, label: 'Back to the estimate' } : { text: 'This estimate can no longer be decided on online; please contact the workshop.' },
+    link
+      ? { link, label: 'Back to the estimate' }
+      : { text: 'This estimate can no longer be decided on online; please contact the workshop.' },
     workshopFooter(s),
   ])
 }
@@ -83,7 +105,10 @@ export interface ConfirmationFacts {
 
 function decisionLines(f: ConfirmationFacts): string {
   return f.result.items
-    .map((i) => `Item ${i.number}: ${i.title} — ${i.decision === 'approved' ? `approved, ${formatMoney(i.gross, f.result.currency)}` : 'declined'}`)
+    .map(
+      (i) =>
+        `Item ${i.number}: ${i.title} — ${i.decision === 'approved' ? `approved, ${formatMoney(i.gross, f.result.currency)}` : 'declined'}`,
+    )
     .join('\n')
 }
 
@@ -121,7 +146,11 @@ export function confirmationCopyEmail(f: ConfirmationFacts, staffUrl: string): E
     { text: `${f.customerName} confirmed estimate ${versionWords(s)} for ${s.vehicle.registration}.` },
     { text: decisionLines(f) },
     { text: `Approved: ${money(approved.gross)} including tax. Deposit due: ${approved.deposit > 0 ? money(approved.deposit) : 'none'}.` },
-    { text: f.startWithinCancellationPeriod ? 'They asked for work to start within the cancellation period.' : 'They did not ask for work to start within the cancellation period.' },
+    {
+      text: f.startWithinCancellationPeriod
+        ? 'They asked for work to start within the cancellation period.'
+        : 'They did not ask for work to start within the cancellation period.',
+    },
     { link: staffUrl, label: 'Open the estimate in Tickover' },
   ])
 }

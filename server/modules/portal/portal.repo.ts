@@ -14,7 +14,7 @@ import {
   staffUsers,
   workshops,
 } from '../../db/schema'
-import type { Decision } from '../../../shared/schemas/estimate'
+import type { Decision } from '../../../shared/estimate/contract'
 import type { EstimateSnapshot } from '../../../shared/schemas/estimates'
 
 export type Tx = Parameters<Parameters<Database['transaction']>[0]>[0]
@@ -36,9 +36,16 @@ export function createPortalRepo(db: Database) {
     /** The link a token stands for, with its version and estimate, whatever state they are in. */
     async linkByHash(q: Queryable, tokenHash: string) {
       const [row] = await q
-        .select({ link: estimateLinks, version: versionColumns, estimate: { id: estimates.id, withdrawnAt: estimates.withdrawnAt, jobId: estimates.jobId } })
+        .select({
+          link: estimateLinks,
+          version: versionColumns,
+          estimate: { id: estimates.id, withdrawnAt: estimates.withdrawnAt, jobId: estimates.jobId },
+        })
         .from(estimateLinks)
-        .innerJoin(estimateVersions, and(eq(estimateVersions.workshopId, estimateLinks.workshopId), eq(estimateVersions.id, estimateLinks.versionId)))
+        .innerJoin(
+          estimateVersions,
+          and(eq(estimateVersions.workshopId, estimateLinks.workshopId), eq(estimateVersions.id, estimateLinks.versionId)),
+        )
         .innerJoin(estimates, and(eq(estimates.workshopId, estimateVersions.workshopId), eq(estimates.id, estimateVersions.estimateId)))
         .innerJoin(workshops, eq(workshops.id, estimateLinks.workshopId))
         .where(eq(estimateLinks.tokenHash, tokenHash))
@@ -73,7 +80,13 @@ export function createPortalRepo(db: Database) {
         .select(versionColumns)
         .from(estimateVersions)
         .innerJoin(workshops, eq(workshops.id, estimateVersions.workshopId))
-        .where(and(eq(estimateVersions.workshopId, workshopId), eq(estimateVersions.estimateId, estimateId), eq(estimateVersions.version, version)))
+        .where(
+          and(
+            eq(estimateVersions.workshopId, workshopId),
+            eq(estimateVersions.estimateId, estimateId),
+            eq(estimateVersions.version, version),
+          ),
+        )
         .for('update', { of: estimateVersions })
       return row
     },
@@ -100,7 +113,10 @@ export function createPortalRepo(db: Database) {
       await tx
         .insert(estimateDecisions)
         .values(row)
-        .onConflictDoUpdate({ target: [estimateDecisions.versionId, estimateDecisions.itemId], set: { decision: row.decision, decidedAt: sql`now()` } })
+        .onConflictDoUpdate({
+          target: [estimateDecisions.versionId, estimateDecisions.itemId],
+          set: { decision: row.decision, decidedAt: sql`now()` },
+        })
     },
 
     async confirmation(q: Queryable, workshopId: string, versionId: string) {
@@ -130,13 +146,18 @@ export function createPortalRepo(db: Database) {
       const rows = await tx
         .update(estimateVersions)
         .set({ openedAt: sql`now()` })
-        .where(and(eq(estimateVersions.workshopId, workshopId), eq(estimateVersions.id, versionId), sql`${estimateVersions.openedAt} is null`))
+        .where(
+          and(eq(estimateVersions.workshopId, workshopId), eq(estimateVersions.id, versionId), sql`${estimateVersions.openedAt} is null`),
+        )
         .returning({ id: estimateVersions.id })
       return rows.length > 0
     },
 
     async touchLink(tx: Tx, linkId: string) {
-      await tx.update(estimateLinks).set({ lastUsedAt: sql`now()` }).where(eq(estimateLinks.id, linkId))
+      await tx
+        .update(estimateLinks)
+        .set({ lastUsedAt: sql`now()` })
+        .where(eq(estimateLinks.id, linkId))
     },
 
     /** A job already finished or cancelled is left as it is: a late confirmation does not reopen it. */
@@ -198,9 +219,17 @@ export function createPortalRepo(db: Database) {
 
     async questions(q: Queryable, workshopId: string, estimateId: string, customerId?: string) {
       return q
-        .select({ question: estimateQuestions, version: estimateVersions.version, answeredByName: staffUsers.name, customerName: customers.name })
+        .select({
+          question: estimateQuestions,
+          version: estimateVersions.version,
+          answeredByName: staffUsers.name,
+          customerName: customers.name,
+        })
         .from(estimateQuestions)
-        .innerJoin(estimateVersions, and(eq(estimateVersions.workshopId, estimateQuestions.workshopId), eq(estimateVersions.id, estimateQuestions.versionId)))
+        .innerJoin(
+          estimateVersions,
+          and(eq(estimateVersions.workshopId, estimateQuestions.workshopId), eq(estimateVersions.id, estimateQuestions.versionId)),
+        )
         .innerJoin(customers, and(eq(customers.workshopId, estimateQuestions.workshopId), eq(customers.id, estimateQuestions.customerId)))
         .leftJoin(staffUsers, and(eq(staffUsers.workshopId, estimateQuestions.workshopId), eq(staffUsers.id, estimateQuestions.answeredBy)))
         .where(
@@ -223,7 +252,13 @@ export function createPortalRepo(db: Database) {
       const [row] = await tx
         .select()
         .from(estimateQuestions)
-        .where(and(eq(estimateQuestions.workshopId, workshopId), eq(estimateQuestions.estimateId, estimateId), eq(estimateQuestions.id, questionId)))
+        .where(
+          and(
+            eq(estimateQuestions.workshopId, workshopId),
+            eq(estimateQuestions.estimateId, estimateId),
+            eq(estimateQuestions.id, questionId),
+          ),
+        )
         .for('update')
       return row
     },

@@ -16,7 +16,7 @@ import type { PortalRepo, Tx, VersionRow } from './portal.repo'
 import { safeCalculateEstimate } from '../../../shared/estimate'
 import { formatMoney } from '../../../shared/money'
 import type { CustomerPrincipal, Principal, StaffPrincipal } from '../../../shared/schemas/auth'
-import type { Decision, EstimateResult } from '../../../shared/schemas/estimate'
+import type { Decision, EstimateResult } from '../../../shared/estimate/contract'
 import { snapshotToEngineInput, type EstimateSnapshot, type SnapshotItem } from '../../../shared/schemas/estimates'
 import type {
   AnswerQuestion,
@@ -51,7 +51,10 @@ export class PortalRefusal extends AppError {
 
 /** What the portal needs of the deposits module (server/modules/payments/deposits.service.ts). */
 export interface DepositCheckout {
-  startCheckout(confirmationId: string, urls: { successUrl: string; cancelUrl: string; req?: Request | null }): Promise<{ url: string; sessionId: string }>
+  startCheckout(
+    confirmationId: string,
+    urls: { successUrl: string; cancelUrl: string; req?: Request | null },
+  ): Promise<{ url: string; sessionId: string }>
 }
 
 export interface PortalServiceDeps {
@@ -70,7 +73,8 @@ type Confirmed = NonNullable<Awaited<ReturnType<PortalRepo['confirmation']>>>
 const notYours = () => new NotFoundError('No such estimate.')
 const iso = (d: Date | null | undefined) => (d ? d.toISOString() : null)
 
-const RENEW_ANSWER = 'If that link belongs to an estimate that can still be decided on, a fresh link is on its way to the e-mail address the workshop has for you.'
+const RENEW_ANSWER =
+  'If that link belongs to an estimate that can still be decided on, a fresh link is on its way to the e-mail address the workshop has for you.'
 
 export function createPortalService(deps: PortalServiceDeps) {
   const { repo, outbox, deposits, storage, env, logger } = deps
@@ -81,7 +85,10 @@ export function createPortalService(deps: PortalServiceDeps) {
 
   /** The estimate's versions when its latest one was addressed to this customer; anyone else's is simply not there. */
   async function ownVersions(me: CustomerPrincipal, estimateId: string) {
-    const [estimate, versions] = await Promise.all([repo.estimate(db, me.workshop.id, estimateId), repo.versions(db, me.workshop.id, estimateId)])
+    const [estimate, versions] = await Promise.all([
+      repo.estimate(db, me.workshop.id, estimateId),
+      repo.versions(db, me.workshop.id, estimateId),
+    ])
     const latest = versions.at(-1)
     if (!estimate || !latest || latest.snapshot.customer.id !== me.id) throw notYours()
     return { estimate, versions, latest }
@@ -104,13 +111,28 @@ export function createPortalService(deps: PortalServiceDeps) {
   }
 
   function superseded(latestVersion: number) {
-    return new PortalRefusal(409, 'superseded', `The workshop has sent a newer version (version ${latestVersion}) of this estimate. Please look at that one.`, { latestVersion } satisfies SupersededDetails)
+    return new PortalRefusal(
+      409,
+      'superseded',
+      `The workshop has sent a newer version (version ${latestVersion}) of this estimate. Please look at that one.`,
+      { latestVersion } satisfies SupersededDetails,
+    )
   }
 
   function refuseClosed(estimate: { withdrawnAt: Date | null }, version: VersionRow, latest: VersionRow) {
-    if (estimate.withdrawnAt) throw new AppError(410, 'withdrawn', 'The workshop has withdrawn this estimate, so it can no longer be decided on. Please contact them.')
+    if (estimate.withdrawnAt)
+      throw new AppError(
+        410,
+        'withdrawn',
+        'The workshop has withdrawn this estimate, so it can no longer be decided on. Please contact them.',
+      )
     if (version.supersededAt || version.version !== latest.version) throw superseded(latest.version)
-    if (version.expired) throw new AppError(410, 'expired', `This estimate could be decided on until the end of ${version.expiresOn}. Please contact the workshop for a new one.`)
+    if (version.expired)
+      throw new AppError(
+        410,
+        'expired',
+        `This estimate could be decided on until the end of ${version.expiresOn}. Please contact the workshop for a new one.`,
+      )
   }
 
   function decisionsOf(snapshot: EstimateSnapshot, stored: Record<string, Decision>): Record<string, Decision> {
@@ -126,7 +148,11 @@ export function createPortalService(deps: PortalServiceDeps) {
     return proposed.data
   }
 
-  function statusOf(estimate: { withdrawnAt: Date | null }, v: Pick<VersionRow, 'confirmedAt' | 'expired' | 'openedAt'>, depositStatus: string | null | undefined): PortalEstimateStatus {
+  function statusOf(
+    estimate: { withdrawnAt: Date | null },
+    v: Pick<VersionRow, 'confirmedAt' | 'expired' | 'openedAt'>,
+    depositStatus: string | null | undefined,
+  ): PortalEstimateStatus {
     // The same order as the staff list's status (estimates.repo.ts), so both sides name the same state.
     if (estimate.withdrawnAt) return 'withdrawn'
     if (depositStatus === 'paid' || depositStatus === 'refunded') return 'deposit_paid'
@@ -137,7 +163,8 @@ export function createPortalService(deps: PortalServiceDeps) {
   }
 
   function depositOf(confirmed: Confirmed | undefined, currency: string): PortalDeposit {
-    if (!confirmed || confirmed.confirmation.depositMinor === 0) return { status: 'not_due', amountMinor: 0, currency, paidAt: null, refundedMinor: null, refundedAt: null }
+    if (!confirmed || confirmed.confirmation.depositMinor === 0)
+      return { status: 'not_due', amountMinor: 0, currency, paidAt: null, refundedMinor: null, refundedAt: null }
     const d = confirmed.deposit
     return {
       status: d?.status ?? 'awaiting_payment',
@@ -168,7 +195,8 @@ export function createPortalService(deps: PortalServiceDeps) {
   }
 
   const capitalise = (s: string) => s.charAt(0).toUpperCase() + s.slice(1)
-  const listWords = (words: string[]) => (words.length <= 1 ? (words[0] ?? '') : `${words.slice(0, -1).join(', ')} and ${words.at(-1) ?? ''}`)
+  const listWords = (words: string[]) =>
+    words.length <= 1 ? (words[0] ?? '') : `${words.slice(0, -1).join(', ')} and ${words.at(-1) ?? ''}`
 
   /**
    * An approved item needs every item it `requires` approved too (the engine refuses anything
@@ -201,11 +229,25 @@ export function createPortalService(deps: PortalServiceDeps) {
 
   function questionOf(row: Awaited<ReturnType<PortalRepo['questions']>>[number]): PortalQuestion {
     const q = row.question
-    return { id: q.id, itemId: q.itemId, version: row.version, question: q.question, answer: q.answer, askedAt: q.askedAt.toISOString(), answeredAt: iso(q.answeredAt) }
+    return {
+      id: q.id,
+      itemId: q.itemId,
+      version: row.version,
+      question: q.question,
+      answer: q.answer,
+      askedAt: q.askedAt.toISOString(),
+      answeredAt: iso(q.answeredAt),
+    }
   }
 
   /** A fresh link to the version when it can still be decided on; null when there is nothing to open. */
-  async function freshLink(tx: Tx, workshopId: string, estimate: { withdrawnAt: Date | null }, version: VersionRow, customerId: string): Promise<string | null> {
+  async function freshLink(
+    tx: Tx,
+    workshopId: string,
+    estimate: { withdrawnAt: Date | null },
+    version: VersionRow,
+    customerId: string,
+  ): Promise<string | null> {
     if (estimate.withdrawnAt || version.expired || version.supersededAt) return null
     const expiresAt = await repo.linkExpiry(tx, workshopId, version.id)
     const token = await issueEstimateLink(tx, { workshopId, versionId: version.id, customerId, expiresAt })
@@ -221,17 +263,26 @@ export function createPortalService(deps: PortalServiceDeps) {
      */
     async open(req: Request, token: string): Promise<{ principal: Principal; estimateId: string; version: number }> {
       const found = await repo.linkByHash(db, hashToken(token))
-      if (!found) throw new AppError(400, 'link_invalid', 'We do not recognise this link. Please use the newest e-mail from the workshop, or ask them to send the estimate again.')
+      if (!found)
+        throw new AppError(
+          400,
+          'link_invalid',
+          'We do not recognise this link. Please use the newest e-mail from the workshop, or ask them to send the estimate again.',
+        )
       const { link, version, estimate } = found
       const versions = await repo.versions(db, link.workshopId, estimate.id)
       const latest = versions.at(-1) ?? version
       const newerVersion = latest.version > version.version
       const renewable = !estimate.withdrawnAt && !latest.expired && latest.snapshot.customer.id === link.customerId
-      const refuse = (code: string, message: string, canRenew = renewable) => new PortalRefusal(410, code, message, { newerVersion, renewable: canRenew } satisfies LinkRefusalDetails)
-      if (estimate.withdrawnAt) throw refuse('link_revoked', 'The workshop has withdrawn this estimate. Please contact them if you have questions.', false)
-      if (version.supersededAt || newerVersion) throw refuse('link_superseded', 'The workshop has sent a newer version of this estimate, so this link no longer opens it.')
+      const refuse = (code: string, message: string, canRenew = renewable) =>
+        new PortalRefusal(410, code, message, { newerVersion, renewable: canRenew } satisfies LinkRefusalDetails)
+      if (estimate.withdrawnAt)
+        throw refuse('link_revoked', 'The workshop has withdrawn this estimate. Please contact them if you have questions.', false)
+      if (version.supersededAt || newerVersion)
+        throw refuse('link_superseded', 'The workshop has sent a newer version of this estimate, so this link no longer opens it.')
       if (link.revokedAt) throw refuse('link_revoked', 'This link has been cancelled by the workshop.')
-      if (link.expiresAt.getTime() <= Date.now() || version.expired) throw refuse('link_expired', `This link worked until the end of ${version.expiresOn}.`)
+      if (link.expiresAt.getTime() <= Date.now() || version.expired)
+        throw refuse('link_expired', `This link worked until the end of ${version.expiresOn}.`)
       const principal = await deps.loadCustomer(link.customerId)
       if (!principal || principal.kind !== 'customer' || principal.workshop.id !== link.workshopId) {
         throw refuse('link_revoked', 'This link can no longer be used. Please contact the workshop.', false)
@@ -284,7 +335,17 @@ export function createPortalService(deps: PortalServiceDeps) {
           if (!url) return null
           const mail = renewedLinkEmail(latest.snapshot, customer.name, url)
           await outbox.queue(
-            { workshopId: link.workshopId, estimateId: estimate.id, kind: 'estimate.link_renewed', to: customer.email, subject: mail.subject, text: mail.text, html: mail.html, replyTo: latest.snapshot.workshop.email, fromName: latest.snapshot.workshop.name },
+            {
+              workshopId: link.workshopId,
+              estimateId: estimate.id,
+              kind: 'estimate.link_renewed',
+              to: customer.email,
+              subject: mail.subject,
+              text: mail.text,
+              html: mail.html,
+              replyTo: latest.snapshot.workshop.email,
+              fromName: latest.snapshot.workshop.name,
+            },
             tx,
           )
           await recordAudit(tx, req, {
@@ -292,11 +353,17 @@ export function createPortalService(deps: PortalServiceDeps) {
             workshopId: link.workshopId,
             actor: { kind: 'anonymous' },
             subject: { type: 'estimate', id: estimate.id },
-            details: { reference: latest.snapshot.reference, version: latest.version, fromVersion: found.version.version, to: customer.email },
+            details: {
+              reference: latest.snapshot.reference,
+              version: latest.version,
+              fromVersion: found.version.version,
+              to: customer.email,
+            },
           })
           return latest.version
         })
-        if (sent === null) logger.info({ estimateId: estimate.id }, 'fresh estimate link not sent: nothing the customer can still decide on')
+        if (sent === null)
+          logger.info({ estimateId: estimate.id }, 'fresh estimate link not sent: nothing the customer can still decide on')
       } catch (err) {
         logger.error({ err }, 'fresh estimate link could not be sent')
       }
@@ -312,7 +379,11 @@ export function createPortalService(deps: PortalServiceDeps) {
         latestVersion: r.version,
         status: statusOf(
           { withdrawnAt: r.withdrawn_at ? new Date(r.withdrawn_at) : null },
-          { confirmedAt: r.confirmed_at ? new Date(r.confirmed_at) : null, expired: r.expired, openedAt: r.opened_at ? new Date(r.opened_at) : null },
+          {
+            confirmedAt: r.confirmed_at ? new Date(r.confirmed_at) : null,
+            expired: r.expired,
+            openedAt: r.opened_at ? new Date(r.opened_at) : null,
+          },
           r.deposit_status,
         ),
         sentAt: new Date(r.sent_at).toISOString(),
@@ -325,7 +396,8 @@ export function createPortalService(deps: PortalServiceDeps) {
 
     async get(me: CustomerPrincipal, estimateId: string, versionNumber?: number): Promise<PortalEstimate> {
       const { estimate, versions, latest } = await ownVersions(me, estimateId)
-      const shown = versionNumber === undefined ? latest : versions.find((v) => v.version === versionNumber && v.snapshot.customer.id === me.id)
+      const shown =
+        versionNumber === undefined ? latest : versions.find((v) => v.version === versionNumber && v.snapshot.customer.id === me.id)
       if (!shown) throw new NotFoundError('No such version of this estimate.', 'no_such_version')
       const [stored, confirmed, questionRows] = await Promise.all([
         repo.decisions(db, me.workshop.id, shown.id),
@@ -362,7 +434,12 @@ export function createPortalService(deps: PortalServiceDeps) {
       return repo.transaction(async (tx) => {
         const { estimate, latest, version } = await lockOwn(tx, me, estimateId, input.version)
         refuseClosed(estimate, version, latest)
-        if (version.confirmedAt) throw new AppError(409, 'confirmed', 'You have already confirmed your decisions on this estimate. Please contact the workshop to change them.')
+        if (version.confirmedAt)
+          throw new AppError(
+            409,
+            'confirmed',
+            'You have already confirmed your decisions on this estimate. Please contact the workshop to change them.',
+          )
         const s = version.snapshot
         const item = itemOf(s, itemId)
         const next = decisionsOf(s, { ...(await repo.decisions(tx, me.workshop.id, version.id)), [itemId]: input.decision })
@@ -370,14 +447,24 @@ export function createPortalService(deps: PortalServiceDeps) {
         await repo.saveDecision(tx, { workshopId: me.workshop.id, versionId: version.id, itemId, decision: input.decision })
         const decided = safeCalculateEstimate(snapshotToEngineInput(s, next))
         if (!decided.success) {
-          throw new ValidationError('That choice cannot be priced. Please contact the workshop.', decided.issues.map((i) => ({ path: i.path.map(String), message: i.message })), 'cannot_price')
+          throw new ValidationError(
+            'That choice cannot be priced. Please contact the workshop.',
+            decided.issues.map((i) => ({ path: i.path.map(String), message: i.message })),
+            'cannot_price',
+          )
         }
         const result = decided.data
         await recordAudit(tx, req, {
           action: 'estimate.decided',
           workshopId: me.workshop.id,
           subject: { type: 'estimate', id: estimateId },
-          details: { reference: s.reference, version: version.version, item: `${item.number}: ${item.title}`, decision: input.decision, approvedGross: result.approved.gross },
+          details: {
+            reference: s.reference,
+            version: version.version,
+            item: `${item.number}: ${item.title}`,
+            decision: input.decision,
+            approvedGross: result.approved.gross,
+          },
         })
         const verb = { approved: 'approved', declined: 'declined', pending: 'undid their choice on' }[input.decision]
         await publishLive(tx, {
@@ -390,12 +477,25 @@ export function createPortalService(deps: PortalServiceDeps) {
       })
     },
 
-    async confirm(req: Request, me: CustomerPrincipal, estimateId: string, input: ConfirmEstimate): Promise<{ created: boolean; answer: ConfirmResponse }> {
-      const answerFor = (c: { id: string; depositMinor: number }): ConfirmResponse => ({ confirmationId: c.id, depositDue: c.depositMinor, next: c.depositMinor > 0 ? 'pay' : 'done' })
+    async confirm(
+      req: Request,
+      me: CustomerPrincipal,
+      estimateId: string,
+      input: ConfirmEstimate,
+    ): Promise<{ created: boolean; answer: ConfirmResponse }> {
+      const answerFor = (c: { id: string; depositMinor: number }): ConfirmResponse => ({
+        confirmationId: c.id,
+        depositDue: c.depositMinor,
+        next: c.depositMinor > 0 ? 'pay' : 'done',
+      })
       return repo.transaction(async (tx) => {
         const { estimate, latest, version } = await lockOwn(tx, me, estimateId, input.version)
         const hashMismatch = () =>
-          new ValidationError('The estimate on your screen is not the one the workshop sent. Please reload the page and check it again.', [{ path: ['hash'], message: 'Does not match the sent version' }], 'hash_mismatch')
+          new ValidationError(
+            'The estimate on your screen is not the one the workshop sent. Please reload the page and check it again.',
+            [{ path: ['hash'], message: 'Does not match the sent version' }],
+            'hash_mismatch',
+          )
         // Confirming twice (a retry, a second tab) answers with the record already made.
         const existing = await repo.confirmation(tx, me.workshop.id, version.id)
         if (existing) {
@@ -416,11 +516,17 @@ export function createPortalService(deps: PortalServiceDeps) {
         }
         const decided = safeCalculateEstimate(snapshotToEngineInput(s, stored))
         if (!decided.success) {
-          throw new ValidationError('Your choices cannot be confirmed together. Please check the items marked.', decided.issues.map((i) => ({ path: i.path.map(String), message: i.message })), 'cannot_price')
+          throw new ValidationError(
+            'Your choices cannot be confirmed together. Please check the items marked.',
+            decided.issues.map((i) => ({ path: i.path.map(String), message: i.message })),
+            'cannot_price',
+          )
         }
         // The server's figures are the truth: the engine prices the stored decisions again here.
         const result = decided.data
-        const decisions = Object.fromEntries(Object.entries(stored).map(([id, d]) => [id, d === 'approved' ? 'approved' : 'declined'] as const))
+        const decisions = Object.fromEntries(
+          Object.entries(stored).map(([id, d]) => [id, d === 'approved' ? 'approved' : 'declined'] as const),
+        )
         const anyApproved = Object.values(decisions).includes('approved')
         const confirmation = await repo.insertConfirmation(tx, {
           workshopId: me.workshop.id,
@@ -428,7 +534,10 @@ export function createPortalService(deps: PortalServiceDeps) {
           customerId: me.id,
           versionHash: version.hash,
           decisions,
-          consents: { startWithinCancellationPeriod: input.consents.startWithinCancellationPeriod, cancellationInformationShown: input.consents.cancellationInformationShown },
+          consents: {
+            startWithinCancellationPeriod: input.consents.startWithinCancellationPeriod,
+            cancellationInformationShown: input.consents.cancellationInformationShown,
+          },
           result,
           approvedGross: result.approved.gross,
           depositMinor: result.approved.deposit,
@@ -463,7 +572,14 @@ export function createPortalService(deps: PortalServiceDeps) {
             ? `${me.name} confirmed ${s.reference}: ${money(result.approved.gross)} approved${result.approved.deposit > 0 ? `, deposit ${money(result.approved.deposit)} due` : ''}`
             : `${me.name} declined every item on ${s.reference}`,
         })
-        const facts = { snapshot: s, result, customerName: me.name, confirmedAt: confirmation.confirmedAt, startWithinCancellationPeriod: input.consents.startWithinCancellationPeriod, estimateUrl: portalEstimateUrl(estimateId) }
+        const facts = {
+          snapshot: s,
+          result,
+          customerName: me.name,
+          confirmedAt: confirmation.confirmedAt,
+          startWithinCancellationPeriod: input.consents.startWithinCancellationPeriod,
+          estimateUrl: portalEstimateUrl(estimateId),
+        }
         const toCustomer = confirmationEmail(facts)
         await outbox.queue(
           {
@@ -482,7 +598,19 @@ export function createPortalService(deps: PortalServiceDeps) {
         )
         if (s.workshop.email) {
           const copy = confirmationCopyEmail(facts, staffEstimateUrl(estimateId))
-          await outbox.queue({ workshopId: me.workshop.id, estimateId, kind: 'estimate.confirmed.copy', to: s.workshop.email, subject: copy.subject, text: copy.text, html: copy.html, replyTo: me.email }, tx)
+          await outbox.queue(
+            {
+              workshopId: me.workshop.id,
+              estimateId,
+              kind: 'estimate.confirmed.copy',
+              to: s.workshop.email,
+              subject: copy.subject,
+              text: copy.text,
+              html: copy.html,
+              replyTo: me.email,
+            },
+            tx,
+          )
         }
         return { created: true, answer: answerFor(confirmation) }
       })
@@ -495,7 +623,8 @@ export function createPortalService(deps: PortalServiceDeps) {
 
     async checkout(req: Request, me: CustomerPrincipal, estimateId: string): Promise<{ url: string }> {
       const { estimate, latest } = await ownVersions(me, estimateId)
-      if (estimate.withdrawnAt) throw new AppError(410, 'withdrawn', 'The workshop has withdrawn this estimate; there is nothing to pay. Please contact them.')
+      if (estimate.withdrawnAt)
+        throw new AppError(410, 'withdrawn', 'The workshop has withdrawn this estimate; there is nothing to pay. Please contact them.')
       const confirmed = await repo.confirmation(db, me.workshop.id, latest.id)
       if (!confirmed) throw new AppError(409, 'not_confirmed', 'Please confirm your decisions before paying the deposit.')
       const state = depositOf(confirmed, latest.snapshot.currency)
@@ -512,7 +641,9 @@ export function createPortalService(deps: PortalServiceDeps) {
     /** A photo of a finding on one of the customer's versions of this estimate, and no other. */
     async photo(me: CustomerPrincipal, estimateId: string, photoId: string, variant: 'full' | 'thumb') {
       const { versions } = await ownVersions(me, estimateId)
-      const shown = versions.filter((v) => v.snapshot.customer.id === me.id).some((v) => v.snapshot.items.some((i) => i.photoIds.includes(photoId)))
+      const shown = versions
+        .filter((v) => v.snapshot.customer.id === me.id)
+        .some((v) => v.snapshot.items.some((i) => i.photoIds.includes(photoId)))
       if (!shown) throw new NotFoundError('No such photo on this estimate.')
       const row = await repo.photo(me.workshop.id, photoId)
       if (!row) throw new NotFoundError('This photo has been removed by the workshop.', 'photo_missing')
@@ -523,7 +654,11 @@ export function createPortalService(deps: PortalServiceDeps) {
     },
 
     /** The version the PDF is of: the latest unless another of the customer's versions is named. */
-    async pdfVersion(me: CustomerPrincipal, estimateId: string, versionNumber?: number): Promise<{ workshopId: string; versionId: string }> {
+    async pdfVersion(
+      me: CustomerPrincipal,
+      estimateId: string,
+      versionNumber?: number,
+    ): Promise<{ workshopId: string; versionId: string }> {
       const { versions, latest } = await ownVersions(me, estimateId)
       const v = versionNumber === undefined ? latest : versions.find((x) => x.version === versionNumber && x.snapshot.customer.id === me.id)
       if (!v) throw new NotFoundError('No such version of this estimate.', 'no_such_version')
@@ -535,22 +670,63 @@ export function createPortalService(deps: PortalServiceDeps) {
         const estimate = await repo.estimate(tx, me.workshop.id, estimateId)
         const latest = (await repo.versions(tx, me.workshop.id, estimateId)).at(-1)
         if (!estimate || !latest || latest.snapshot.customer.id !== me.id) throw notYours()
-        if (estimate.withdrawnAt) throw new AppError(410, 'withdrawn', 'The workshop has withdrawn this estimate. Please contact them directly.')
+        if (estimate.withdrawnAt)
+          throw new AppError(410, 'withdrawn', 'The workshop has withdrawn this estimate. Please contact them directly.')
         const s = latest.snapshot
         const item = itemOf(s, input.itemId)
-        const row = await repo.insertQuestion(tx, { workshopId: me.workshop.id, estimateId, versionId: latest.id, itemId: item.id, customerId: me.id, question: input.question })
+        const row = await repo.insertQuestion(tx, {
+          workshopId: me.workshop.id,
+          estimateId,
+          versionId: latest.id,
+          itemId: item.id,
+          customerId: me.id,
+          question: input.question,
+        })
         if (s.workshop.email) {
           const mail = questionEmail(s, me.name, item, input.question, staffEstimateUrl(estimateId))
-          await outbox.queue({ workshopId: me.workshop.id, estimateId, kind: 'estimate.question', to: s.workshop.email, subject: mail.subject, text: mail.text, html: mail.html, replyTo: me.email }, tx)
+          await outbox.queue(
+            {
+              workshopId: me.workshop.id,
+              estimateId,
+              kind: 'estimate.question',
+              to: s.workshop.email,
+              subject: mail.subject,
+              text: mail.text,
+              html: mail.html,
+              replyTo: me.email,
+            },
+            tx,
+          )
         }
-        await recordAudit(tx, req, { action: 'estimate.question_asked', workshopId: me.workshop.id, subject: { type: 'estimate', id: estimateId }, details: { reference: s.reference, version: latest.version, item: `${item.number}: ${item.title}`, questionId: row.id } })
-        await publishLive(tx, { type: 'estimate.question', workshopId: me.workshop.id, estimateId, summary: `${me.name} asked about item ${item.number}: ${input.question}`.slice(0, 300) })
-        return { id: row.id, itemId: row.itemId, version: latest.version, question: row.question, answer: null, askedAt: row.askedAt.toISOString(), answeredAt: null }
+        await recordAudit(tx, req, {
+          action: 'estimate.question_asked',
+          workshopId: me.workshop.id,
+          subject: { type: 'estimate', id: estimateId },
+          details: { reference: s.reference, version: latest.version, item: `${item.number}: ${item.title}`, questionId: row.id },
+        })
+        await publishLive(tx, {
+          type: 'estimate.question',
+          workshopId: me.workshop.id,
+          estimateId,
+          summary: `${me.name} asked about item ${item.number}: ${input.question}`.slice(0, 300),
+        })
+        return {
+          id: row.id,
+          itemId: row.itemId,
+          version: latest.version,
+          question: row.question,
+          answer: null,
+          askedAt: row.askedAt.toISOString(),
+          answeredAt: null,
+        }
       })
     },
 
     async staffQuestions(me: StaffPrincipal, estimateId: string): Promise<StaffQuestion[]> {
-      const [estimate, versions] = await Promise.all([repo.estimate(db, me.workshop.id, estimateId), repo.versions(db, me.workshop.id, estimateId)])
+      const [estimate, versions] = await Promise.all([
+        repo.estimate(db, me.workshop.id, estimateId),
+        repo.versions(db, me.workshop.id, estimateId),
+      ])
       if (!estimate) throw new NotFoundError('No such estimate in this workshop.')
       const rows = await repo.questions(db, me.workshop.id, estimateId)
       return rows.map((r) => staffQuestionOf(r, versions))
@@ -570,10 +746,21 @@ export function createPortalService(deps: PortalServiceDeps) {
         const customer = await repo.customer(tx, me.workshop.id, question.customerId)
         const item = askedOn.snapshot.items.find((i) => i.id === question.itemId)
         if (customer?.email && !customer.archivedAt) {
-          const link = latest.snapshot.customer.id === customer.id ? await freshLink(tx, me.workshop.id, estimate, latest, customer.id) : null
+          const link =
+            latest.snapshot.customer.id === customer.id ? await freshLink(tx, me.workshop.id, estimate, latest, customer.id) : null
           const mail = answerEmail(latest.snapshot, customer.name, item, question.question, input.answer, link)
           await outbox.queue(
-            { workshopId: me.workshop.id, estimateId, kind: 'estimate.question_answered', to: customer.email, subject: mail.subject, text: mail.text, html: mail.html, replyTo: latest.snapshot.workshop.email, fromName: latest.snapshot.workshop.name },
+            {
+              workshopId: me.workshop.id,
+              estimateId,
+              kind: 'estimate.question_answered',
+              to: customer.email,
+              subject: mail.subject,
+              text: mail.text,
+              html: mail.html,
+              replyTo: latest.snapshot.workshop.email,
+              fromName: latest.snapshot.workshop.name,
+            },
             tx,
           )
         }
@@ -581,13 +768,22 @@ export function createPortalService(deps: PortalServiceDeps) {
           action: 'estimate.question_answered',
           workshopId: me.workshop.id,
           subject: { type: 'estimate', id: estimateId },
-          details: { reference: latest.snapshot.reference, questionId, item: item ? `${item.number}: ${item.title}` : question.itemId, customer: customer?.name ?? null },
+          details: {
+            reference: latest.snapshot.reference,
+            questionId,
+            item: item ? `${item.number}: ${item.title}` : question.itemId,
+            customer: customer?.name ?? null,
+          },
         })
         await publishLive(tx, {
           type: 'estimate.question',
           workshopId: me.workshop.id,
           estimateId,
-          summary: `${me.name} answered ${customer?.name ?? 'the customer'}’s question on ${item ? `item ${item.number}` : 'an item'}`.slice(0, 300),
+          summary:
+            `${me.name} answered ${customer?.name ?? 'the customer'}’s question on ${item ? `item ${item.number}` : 'an item'}`.slice(
+              0,
+              300,
+            ),
         })
         return versions
       })

@@ -15,10 +15,15 @@ export function estimateQuestionRoutes(table: RouteTable, service: PortalService
     res.json({ items: await service.staffQuestions(me, paramsOf(req).id) })
   })
 
-  g.post('/:id/questions/:questionId/answer', staffWith('estimates:write'), validate({ params: QuestionParamsSchema, body: AnswerQuestionSchema }), async (req, res) => {
-    const { id, questionId } = paramsOf(req)
-    res.json(await service.answer(req, staffOf(req), id, questionId, req.body as AnswerQuestion))
-  })
+  g.post(
+    '/:id/questions/:questionId/answer',
+    staffWith('estimates:write'),
+    validate({ params: QuestionParamsSchema, body: AnswerQuestionSchema }),
+    async (req, res) => {
+      const { id, questionId } = paramsOf(req)
+      res.json(await service.answer(req, staffOf(req), id, questionId, req.body as AnswerQuestion))
+    },
+  )
 
   return g
 }

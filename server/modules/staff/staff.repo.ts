@@ -9,11 +9,17 @@ export function createStaffRepo(db: Database) {
       return db.select().from(staffUsers).where(eq(staffUsers.workshopId, workshopId)).orderBy(asc(staffUsers.name))
     },
     async find(workshopId: string, id: string) {
-      const [row] = await db.select().from(staffUsers).where(and(eq(staffUsers.workshopId, workshopId), eq(staffUsers.id, id)))
+      const [row] = await db
+        .select()
+        .from(staffUsers)
+        .where(and(eq(staffUsers.workshopId, workshopId), eq(staffUsers.id, id)))
       return row
     },
     async emailTaken(email: string) {
-      const [row] = await db.select({ id: staffUsers.id }).from(staffUsers).where(sql`lower(${staffUsers.email}) = ${email.toLowerCase()}`)
+      const [row] = await db
+        .select({ id: staffUsers.id })
+        .from(staffUsers)
+        .where(sql`lower(${staffUsers.email}) = ${email.toLowerCase()}`)
       return Boolean(row)
     },
     async insert(values: typeof staffUsers.$inferInsert) {
@@ -33,7 +39,14 @@ export function createStaffRepo(db: Database) {
       const [row] = await db
         .select({ n: count() })
         .from(staffUsers)
-        .where(and(eq(staffUsers.workshopId, workshopId), eq(staffUsers.role, 'owner' satisfies StaffRole), isNull(staffUsers.deactivatedAt), ne(staffUsers.id, exceptId)))
+        .where(
+          and(
+            eq(staffUsers.workshopId, workshopId),
+            eq(staffUsers.role, 'owner' satisfies StaffRole),
+            isNull(staffUsers.deactivatedAt),
+            ne(staffUsers.id, exceptId),
+          ),
+        )
       return row?.n ?? 0
     },
   }

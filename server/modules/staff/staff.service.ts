@@ -43,9 +43,15 @@ export function createStaffService(deps: { repo: StaffRepo; authRepo: AuthRepo; 
     },
 
     async invite(req: Request, me: StaffPrincipal, input: InviteStaff) {
-      if (await repo.emailTaken(input.email)) throw new ConflictError('Someone already uses that e-mail address on Tickover.', 'email_taken')
+      if (await repo.emailTaken(input.email))
+        throw new ConflictError('Someone already uses that e-mail address on Tickover.', 'email_taken')
       const row = await repo.insert({ workshopId: me.workshop.id, name: input.name, email: input.email, role: input.role })
-      await recordAudit(db, req, { action: 'staff.invited', workshopId: me.workshop.id, subject: { type: 'staff', id: row.id }, details: { role: row.role, email: row.email } })
+      await recordAudit(db, req, {
+        action: 'staff.invited',
+        workshopId: me.workshop.id,
+        subject: { type: 'staff', id: row.id },
+        details: { role: row.role, email: row.email },
+      })
       return toStaffMember(row)
     },
 
@@ -55,7 +61,12 @@ export function createStaffService(deps: { repo: StaffRepo; authRepo: AuthRepo; 
       if (target.role === 'owner') await keepAnOwner(me, target)
       const row = await repo.update(me.workshop.id, id, { role })
       if (!row) throw new NotFoundError()
-      await recordAudit(db, req, { action: 'staff.role_changed', workshopId: me.workshop.id, subject: { type: 'staff', id }, details: { from: target.role, to: role } })
+      await recordAudit(db, req, {
+        action: 'staff.role_changed',
+        workshopId: me.workshop.id,
+        subject: { type: 'staff', id },
+        details: { from: target.role, to: role },
+      })
       return toStaffMember(row)
     },
 

@@ -40,7 +40,9 @@ export function createVehiclesService(repo: VehiclesRepo) {
   }
   async function checkCustomer(workshopId: string, customerId: string) {
     if (!(await repo.customerExists(workshopId, customerId))) {
-      throw new ValidationError('Choose a customer of this workshop.', [{ path: ['body', 'customerId'], message: 'Choose a customer of this workshop' }])
+      throw new ValidationError('Choose a customer of this workshop.', [
+        { path: ['body', 'customerId'], message: 'Choose a customer of this workshop' },
+      ])
     }
   }
   return {

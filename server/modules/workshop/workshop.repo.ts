@@ -12,7 +12,13 @@ export function createWorkshopRepo(db: Database) {
     async update(id: string, values: WorkshopSettings) {
       const [row] = await db
         .update(workshops)
-        .set({ ...values, postcode: values.postcode ?? null, phone: values.phone ?? null, email: values.email ?? null, vatNumber: values.vatNumber ?? null })
+        .set({
+          ...values,
+          postcode: values.postcode ?? null,
+          phone: values.phone ?? null,
+          email: values.email ?? null,
+          vatNumber: values.vatNumber ?? null,
+        })
         .where(eq(workshops.id, id))
         .returning()
       return row

@@ -33,7 +33,9 @@ export function createWorkshopService(deps: { repo: WorkshopRepo; db: Database }
       const row = await repo.update(me.workshop.id, input)
       if (!row) throw new NotFoundError()
       const after = toWorkshop(row)
-      const changed = (Object.keys(input) as (keyof WorkshopSettings)[]).filter((k) => JSON.stringify(before[k] ?? null) !== JSON.stringify(after[k] ?? null))
+      const changed = (Object.keys(input) as (keyof WorkshopSettings)[]).filter(
+        (k) => JSON.stringify(before[k] ?? null) !== JSON.stringify(after[k] ?? null),
+      )
       if (changed.length > 0) {
         await recordAudit(db, req, {
           action: 'settings.changed',

@@ -62,7 +62,12 @@ describe('CustomerForm', () => {
 
   it('shows the server’s 422 issue on the e-mail field, and its message up top when no field fits', async () => {
     mountForm({
-      problem: { status: 422, code: 'validation_failed', message: 'Some of the details are not right.', issues: [{ path: ['body', 'email'], message: 'Enter a valid e-mail address, like name@example.com' }] },
+      problem: {
+        status: 422,
+        code: 'validation_failed',
+        message: 'Some of the details are not right.',
+        issues: [{ path: ['body', 'email'], message: 'Enter a valid e-mail address, like name@example.com' }],
+      },
     })
     await flushPromises()
     expect(fieldMessages(fieldByLabel('E-mail address'))).toBe('Enter a valid e-mail address, like name@example.com')

@@ -19,7 +19,15 @@ const items = [
 
 function mountCard(props: { item?: DraftItem; number?: number; canEdit?: boolean; [key: string]: unknown } = {}) {
   const wrapper = mount(EstimateItemCard, {
-    props: { item: draftItem({ id: 'item-cv', title: 'CV joint' }), number: 2, items, currency: 'GBP', timeZone: 'Europe/London', canEdit: true, ...props },
+    props: {
+      item: draftItem({ id: 'item-cv', title: 'CV joint' }),
+      number: 2,
+      items,
+      currency: 'GBP',
+      timeZone: 'Europe/London',
+      canEdit: true,
+      ...props,
+    },
     global: { plugins: [createTestVuetify()] },
     attachTo: document.body,
   })
@@ -96,8 +104,39 @@ describe('EstimateItemCard', () => {
     const d = draft({
       accessSteps: [{ code: 'HUB', hours: '1.2', includes: [], label: 'Hub off' }],
       items: [
-        draftItem({ id: 'item-hub', lines: [{ id: 'a', kind: 'labour', description: 'Hub seal', hours: '1.8', rate: 8000, taxRate: '20', accessSteps: ['HUB'], operationCode: null, category: 'standard' }] }),
-        draftItem({ id: 'item-cv', title: 'CV joint', lines: [{ id: 'b', kind: 'labour', description: 'CV joint', hours: '3.5', rate: 8000, taxRate: '20', accessSteps: ['HUB'], operationCode: null, category: 'standard' }] }),
+        draftItem({
+          id: 'item-hub',
+          lines: [
+            {
+              id: 'a',
+              kind: 'labour',
+              description: 'Hub seal',
+              hours: '1.8',
+              rate: 8000,
+              taxRate: '20',
+              accessSteps: ['HUB'],
+              operationCode: null,
+              category: 'standard',
+            },
+          ],
+        }),
+        draftItem({
+          id: 'item-cv',
+          title: 'CV joint',
+          lines: [
+            {
+              id: 'b',
+              kind: 'labour',
+              description: 'CV joint',
+              hours: '3.5',
+              rate: 8000,
+              taxRate: '20',
+              accessSteps: ['HUB'],
+              operationCode: null,
+              category: 'standard',
+            },
+          ],
+        }),
       ],
     })
     // As the builder prices it: every item approved, so later items share what earlier ones open up.

@@ -11,7 +11,11 @@ import { createTestVuetify } from '../support/vuetify'
 let unmount: (() => void) | undefined
 
 function mountTotals(d: EstimateDraft, currency = 'GBP') {
-  const wrapper = mount(EstimateTotals, { props: { draft: d, currency }, global: { plugins: [createTestVuetify()] }, attachTo: document.body })
+  const wrapper = mount(EstimateTotals, {
+    props: { draft: d, currency },
+    global: { plugins: [createTestVuetify()] },
+    attachTo: document.body,
+  })
   unmount = () => wrapper.unmount()
   return wrapper
 }
@@ -52,7 +56,17 @@ describe('EstimateTotals', () => {
         draftItem({
           id: 'item-seal',
           lines: [
-            { id: 'l1', kind: 'labour', description: 'Hub seal', hours: '1.8', rate: 8250, taxRate: '20', accessSteps: ['HUB'], operationCode: 'SEAL', category: 'standard' },
+            {
+              id: 'l1',
+              kind: 'labour',
+              description: 'Hub seal',
+              hours: '1.8',
+              rate: 8250,
+              taxRate: '20',
+              accessSteps: ['HUB'],
+              operationCode: 'SEAL',
+              category: 'standard',
+            },
             { id: 'l2', kind: 'part', description: 'Seal kit', quantity: '1', unitPrice: 1999, taxRate: '20', partNumber: 'SK-1' },
           ],
         }),
@@ -60,8 +74,18 @@ describe('EstimateTotals', () => {
           id: 'item-cv',
           title: 'CV joint',
           lines: [
-            { id: 'l3', kind: 'labour', description: 'CV joint', hours: '3.5', rate: 9500, taxRate: '20', accessSteps: ['HUB'], operationCode: 'CV', category: 'specialist' },
-            { id: 'l4', kind: 'fee', description: 'Disposal', amount: 450, taxRate: '0', },
+            {
+              id: 'l3',
+              kind: 'labour',
+              description: 'CV joint',
+              hours: '3.5',
+              rate: 9500,
+              taxRate: '20',
+              accessSteps: ['HUB'],
+              operationCode: 'CV',
+              category: 'specialist',
+            },
+            { id: 'l4', kind: 'fee', description: 'Disposal', amount: 450, taxRate: '0' },
           ],
         }),
       ],
@@ -88,10 +112,30 @@ describe('EstimateTotals', () => {
 
   it('says why there are no totals while the draft breaks the engine’s rules', () => {
     const wrapper = mountTotals(
-      draft({ items: [draftItem({ lines: [{ id: 'l1', kind: 'labour', description: 'Hub', hours: '0.5', rate: 8000, taxRate: '20', accessSteps: ['NOPE'], operationCode: null, category: null }] })] }),
+      draft({
+        items: [
+          draftItem({
+            lines: [
+              {
+                id: 'l1',
+                kind: 'labour',
+                description: 'Hub',
+                hours: '0.5',
+                rate: 8000,
+                taxRate: '20',
+                accessSteps: ['NOPE'],
+                operationCode: null,
+                category: null,
+              },
+            ],
+          }),
+        ],
+      }),
     )
 
     expect(wrapper.find('table').exists()).toBe(false)
-    expect(wrapper.get('[role="status"]').text()).toBe('The totals cannot be worked out until the problems marked on the estimate are fixed.')
+    expect(wrapper.get('[role="status"]').text()).toBe(
+      'The totals cannot be worked out until the problems marked on the estimate are fixed.',
+    )
   })
 })

@@ -113,7 +113,11 @@ describe('FindingPhotoUploader', () => {
   it('refuses more than 10 photos, or one over 15 MB, before sending anything', async () => {
     const wrapper = mountHarness()
 
-    await choose(wrapper, 'Choose photos', Array.from({ length: 11 }, (_, i) => file(`p${i}.jpg`)))
+    await choose(
+      wrapper,
+      'Choose photos',
+      Array.from({ length: 11 }, (_, i) => file(`p${i}.jpg`)),
+    )
     expect(wrapper.get('[role="alert"]').text()).toContain('Choose at most 10 photos at a time; you chose 11.')
 
     await choose(wrapper, 'Choose photos', [file('small.jpg'), file('huge.jpg', 15 * 1024 * 1024 + 1)])

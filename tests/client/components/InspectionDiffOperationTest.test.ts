@@ -52,7 +52,13 @@ describe('InspectionDiffOperationTest', () => {
       [
         {
           kind: 'diff-operation',
-          steps: { propTurnsWheelsSameWay: 'yes', propWontStop: 'no', heldPropOtherWheelOpposite: 'yes', heldWheelPropTurns: 'yes', wheelStiff: 'yes' },
+          steps: {
+            propTurnsWheelsSameWay: 'yes',
+            propWontStop: 'no',
+            heldPropOtherWheelOpposite: 'yes',
+            heldWheelPropTurns: 'yes',
+            wheelStiff: 'yes',
+          },
         },
       ],
     ])

@@ -17,7 +17,11 @@ beforeAll(() => preloadRouteComponents())
 
 function mountLink(props: { estimate: JobEstimate | null | undefined; canStart?: boolean }) {
   const router = createRouter({ history: createMemoryHistory(), routes })
-  const wrapper = mount(JobEstimateLink, { props: { canStart: true, starting: false, ...props }, global: { plugins: [createTestVuetify(), router] }, attachTo: document.body })
+  const wrapper = mount(JobEstimateLink, {
+    props: { canStart: true, starting: false, ...props },
+    global: { plugins: [createTestVuetify(), router] },
+    attachTo: document.body,
+  })
   unmount = () => wrapper.unmount()
   return wrapper
 }

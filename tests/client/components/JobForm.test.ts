@@ -87,7 +87,12 @@ describe('JobForm', () => {
   it('shows the server’s 422 on the technician field of a job being edited', async () => {
     mountForm({
       job: job({ technicianId, technicianName: 'Pim Sayer' }),
-      problem: { status: 422, code: 'validation_failed', message: 'x', issues: [{ path: ['body', 'technicianId'], message: 'Choose an active member of this workshop' }] },
+      problem: {
+        status: 422,
+        code: 'validation_failed',
+        message: 'x',
+        issues: [{ path: ['body', 'technicianId'], message: 'Choose an active member of this workshop' }],
+      },
     })
     await flushPromises()
 

@@ -89,7 +89,9 @@ describe('LabourLookup', () => {
     const wrapper = mountLookup({ vehicleGroup: 'coil-sprung-live-axle', side: 'left' })
     await type(wrapper, 'cv joint')
     await vi.advanceTimersByTimeAsync(200)
-    expect(searchLabour).toHaveBeenCalledWith(expect.objectContaining({ q: 'cv joint', vehicleGroup: 'coil-sprung-live-axle', side: 'left' }))
+    expect(searchLabour).toHaveBeenCalledWith(
+      expect.objectContaining({ q: 'cv joint', vehicleGroup: 'coil-sprung-live-axle', side: 'left' }),
+    )
   })
 
   it('shows each result with hours, category, price at the rate and its access steps', async () => {
@@ -111,7 +113,12 @@ describe('LabourLookup', () => {
   })
 
   it('says when the rate is not set rather than showing a price of nothing', async () => {
-    vi.mocked(searchLabour).mockResolvedValue({ items: [operation('333', 'Diagnose noise', { priceMinor: null, rateMinor: null })], total: 1, page: 1, pageSize: 8 })
+    vi.mocked(searchLabour).mockResolvedValue({
+      items: [operation('333', 'Diagnose noise', { priceMinor: null, rateMinor: null })],
+      total: 1,
+      page: 1,
+      pageSize: 8,
+    })
     const wrapper = mountLookup()
     await type(wrapper, 'noise')
     await vi.advanceTimersByTimeAsync(200)

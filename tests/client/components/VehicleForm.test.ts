@@ -116,7 +116,9 @@ describe('VehicleForm', () => {
     typeInto(fieldByLabel('Odometer reading'), '98000')
     await flushPromises()
     // Picking the keeper goes through the autocomplete's menu; its options come from the page.
-    fieldByLabel('Keeper').closest('.v-field')?.dispatchEvent(new MouseEvent('mousedown', { bubbles: true }))
+    fieldByLabel('Keeper')
+      .closest('.v-field')
+      ?.dispatchEvent(new MouseEvent('mousedown', { bubbles: true }))
     await flushPromises()
     const option = [...document.querySelectorAll<HTMLElement>('[role="option"]')].find((o) => o.textContent?.includes('Maris Fenwick'))
     option?.click()

@@ -25,7 +25,9 @@ describe('estimate draft helpers', () => {
       { code: 'HUB', hours: '0.9', includes: ['CALIPER', 'WHEEL'], label: 'Hub off' },
       { code: 'CALIPER', hours: '0.2', includes: ['WHEEL'], label: 'Caliper off' },
     ])
-    expect(mergeAccessSteps(merged, [{ code: 'HUB', name: 'Hub off', hours: '0.9', includes: ['CALIPER', 'WHEEL'] }], graph)).toEqual(merged)
+    expect(mergeAccessSteps(merged, [{ code: 'HUB', name: 'Hub off', hours: '0.9', includes: ['CALIPER', 'WHEEL'] }], graph)).toEqual(
+      merged,
+    )
   })
 
   it('moves an entry within the list and leaves it be at either end', () => {
@@ -61,7 +63,17 @@ describe('estimate draft helpers', () => {
 })
 
 describe('estimate wording', () => {
-  const version = (n: number, sentAt: string) => ({ id: `v${n}`, version: n, hash: '', sentAt, expiresOn: '2026-03-16', supersededAt: null, openedAt: null, confirmedAt: null, proposedGross: 0 })
+  const version = (n: number, sentAt: string) => ({
+    id: `v${n}`,
+    version: n,
+    hash: '',
+    sentAt,
+    expiresOn: '2026-03-16',
+    supersededAt: null,
+    openedAt: null,
+    confirmedAt: null,
+    proposedGross: 0,
+  })
 
   it('reads moments by the workshop’s clock, summer time included', () => {
     // UK summer time (BST, UTC+1) runs from late March to late October (common knowledge).

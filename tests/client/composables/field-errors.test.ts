@@ -70,7 +70,13 @@ describe('useFieldErrors', () => {
     expect(errors.validate(WorkshopSettingsSchema, { name: '', addressLines: [], currency: 'GBP', timezone: 'Europe/London' })).toBeNull()
     expect(errors.errorsFor('name')).toEqual(['Enter the workshop name'])
 
-    const valid = errors.validate(WorkshopSettingsSchema, { name: ' Yard ', addressLines: [], phone: '', currency: 'GBP', timezone: 'Europe/London' })
+    const valid = errors.validate(WorkshopSettingsSchema, {
+      name: ' Yard ',
+      addressLines: [],
+      phone: '',
+      currency: 'GBP',
+      timezone: 'Europe/London',
+    })
     expect(valid).toMatchObject({ name: 'Yard', phone: null })
     expect(errors.errorsFor('name')).toEqual([])
   })

@@ -34,7 +34,11 @@ const copy: CheckTemplate = {
 async function mountPage() {
   const router = createRouter({ history: createMemoryHistory(), routes })
   await router.push({ name: 'check-template', params: { id: ID } })
-  const wrapper = mount(CheckTemplateEditPage, { props: { id: ID }, attachTo: document.body, global: { plugins: [createTestVuetify(), createPinia(), router] } })
+  const wrapper = mount(CheckTemplateEditPage, {
+    props: { id: ID },
+    attachTo: document.body,
+    global: { plugins: [createTestVuetify(), createPinia(), router] },
+  })
   await flushPromises()
   return wrapper
 }
@@ -81,7 +85,9 @@ describe('CheckTemplateEditPage', () => {
   })
 
   it('saves a renamed outcome with the rest of the template, and an empty vehicle group as none', async () => {
-    vi.mocked(saveCheckTemplate).mockImplementation((_id, input) => Promise.resolve({ ...copy, ...input, vehicleGroup: input.vehicleGroup ?? null }))
+    vi.mocked(saveCheckTemplate).mockImplementation((_id, input) =>
+      Promise.resolve({ ...copy, ...input, vehicleGroup: input.vehicleGroup ?? null }),
+    )
     const wrapper = await mountPage()
     await openCheck(wrapper, 'Oil at the swivel housing seal')
 

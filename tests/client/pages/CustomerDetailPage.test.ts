@@ -36,7 +36,8 @@ vi.mock('@/api/vehicles', () => ({
   deleteVehicle: vi.fn(),
 }))
 
-const refusal = 'This customer has vehicles or jobs on record, so they cannot be deleted. Archive them instead: they disappear from lists but their history is kept.'
+const refusal =
+  'This customer has vehicles or jobs on record, so they cannot be deleted. Archive them instead: they disappear from lists but their history is kept.'
 let unmount: (() => void) | undefined
 
 async function mountPage() {

@@ -44,7 +44,10 @@ async function mountPage(role: StaffRole = 'advisor') {
   return { wrapper, router }
 }
 
-const people = [customer(), customer({ id: testIds.otherCustomer, name: 'Ives Marlow', email: null, phone: '07700 900456', vehicleCount: 0 })]
+const people = [
+  customer(),
+  customer({ id: testIds.otherCustomer, name: 'Ives Marlow', email: null, phone: '07700 900456', vehicleCount: 0 }),
+]
 
 beforeEach(() => {
   vi.stubGlobal('visualViewport', undefined)
@@ -110,7 +113,9 @@ describe('customers page', () => {
 
   it('adds a customer, showing the server’s 422 on the field it names', async () => {
     vi.mocked(createCustomer).mockRejectedValue(
-      new ApiError(422, 'validation_failed', 'Some of the details are not right.', [{ path: ['body', 'phone'], message: 'That number is not one we can use' }]),
+      new ApiError(422, 'validation_failed', 'Some of the details are not right.', [
+        { path: ['body', 'phone'], message: 'That number is not one we can use' },
+      ]),
     )
     await mountPage()
 
@@ -124,7 +129,9 @@ describe('customers page', () => {
     buttonByName('Add customer', openDialog() ?? document).click()
     await flushPromises()
 
-    expect(createCustomer).toHaveBeenCalledWith(expect.objectContaining({ name: 'Ives Marlow', phone: '07700 900456', contactByEmail: false, contactByPhone: true }))
+    expect(createCustomer).toHaveBeenCalledWith(
+      expect.objectContaining({ name: 'Ives Marlow', phone: '07700 900456', contactByEmail: false, contactByPhone: true }),
+    )
     expect(fieldMessages(fieldByLabel('Phone number'))).toBe('That number is not one we can use')
     expect(openDialog()).not.toBeNull()
   })

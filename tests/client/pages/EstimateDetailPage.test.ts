@@ -39,7 +39,17 @@ vi.mock('@/api/catalogue', () => ({
 
 let unmount: (() => void) | undefined
 
-const version1 = { id: estimateIds.version, version: 1, hash: 'ab', sentAt: '2026-03-02T14:03:00.000Z', expiresOn: '2026-03-16', supersededAt: null, openedAt: null, confirmedAt: null, proposedGross: 17400 }
+const version1 = {
+  id: estimateIds.version,
+  version: 1,
+  hash: 'ab',
+  sentAt: '2026-03-02T14:03:00.000Z',
+  expiresOn: '2026-03-16',
+  supersededAt: null,
+  openedAt: null,
+  confirmedAt: null,
+  proposedGross: 17400,
+}
 
 async function mountPage(detail: EstimateDetail, role: StaffRole = 'advisor') {
   vi.mocked(getEstimate).mockResolvedValue(detail)
@@ -60,7 +70,12 @@ async function mountPage(detail: EstimateDetail, role: StaffRole = 'advisor') {
 beforeEach(() => {
   vi.stubGlobal('visualViewport', undefined)
   for (const fn of [getEstimate, saveDraft, sendEstimate, addFindings, getPricing, listAccessSteps]) vi.mocked(fn).mockReset()
-  vi.mocked(getPricing).mockResolvedValue({ currency: 'GBP', rates: { standard: 8000, diagnostic: 8500, specialist: 9500 }, defaultTaxRate: '20', markupBands: [] })
+  vi.mocked(getPricing).mockResolvedValue({
+    currency: 'GBP',
+    rates: { standard: 8000, diagnostic: 8500, specialist: 9500 },
+    defaultTaxRate: '20',
+    markupBands: [],
+  })
   vi.mocked(listAccessSteps).mockResolvedValue({ items: [] })
   vi.mocked(saveDraft).mockImplementation(async (_id, revision, saved) => estimateDetail({ draft: saved, revision: revision + 1 }))
 })
@@ -123,7 +138,9 @@ describe('estimate page', () => {
   })
 
   it('removes an item with a way to undo it', async () => {
-    const wrapper = await mountPage(estimateDetail({ draft: draft({ items: [draftItem(), draftItem({ id: 'item-cv', title: 'CV joint' })] }) }))
+    const wrapper = await mountPage(
+      estimateDetail({ draft: draft({ items: [draftItem(), draftItem({ id: 'item-cv', title: 'CV joint' })] }) }),
+    )
 
     buttonByName('Remove item 1').click()
     await flushPromises()
@@ -140,8 +157,22 @@ describe('estimate page', () => {
       estimateDetail({
         draft: draft({ items: [draftItem({ findingId: estimateIds.findingHub })] }),
         findings: [
-          { id: estimateIds.findingHub, title: 'Hub seal weeping', severity: 'soon', position: 'left', measurement: null, usedByItemIds: ['item-hub'] },
-          { id: estimateIds.findingSeal, title: 'Swivel ball pitted', severity: 'urgent', position: 'right', measurement: null, usedByItemIds: [] },
+          {
+            id: estimateIds.findingHub,
+            title: 'Hub seal weeping',
+            severity: 'soon',
+            position: 'left',
+            measurement: null,
+            usedByItemIds: ['item-hub'],
+          },
+          {
+            id: estimateIds.findingSeal,
+            title: 'Swivel ball pitted',
+            severity: 'urgent',
+            position: 'right',
+            measurement: null,
+            usedByItemIds: [],
+          },
         ],
       }),
     )

@@ -115,7 +115,13 @@ describe('estimates page', () => {
 
     const at = '2026-03-02T15:12:00.000Z'
     stream.deliver('estimate.decision', { type: 'estimate.decision', workshopId: testWorkshop.id, estimateId: estimateIds.estimate, at })
-    stream.deliver('estimate.confirmed', { type: 'estimate.confirmed', workshopId: testWorkshop.id, estimateId: estimateIds.estimate, status: 'confirmed', at })
+    stream.deliver('estimate.confirmed', {
+      type: 'estimate.confirmed',
+      workshopId: testWorkshop.id,
+      estimateId: estimateIds.estimate,
+      status: 'confirmed',
+      at,
+    })
     stream.deliver('estimate.opened', { type: 'estimate.opened', workshopId: testWorkshop.id, estimateId: estimateIds.other, at })
     await new Promise((resolve) => setTimeout(resolve, LIVE_REFRESH_DELAY_MS + 50))
     await flushPromises()

@@ -46,7 +46,7 @@ afterEach(() => {
 })
 
 describe('portal account', () => {
-  it("greets the customer, names their workshop and lists their vehicles", async () => {
+  it('greets the customer, names their workshop and lists their vehicles', async () => {
     vi.mocked(listMyVehicles).mockResolvedValue([
       { id: '5a0c1f07-6183-44b5-8fc0-71921bd45f66', registration: 'HM19 TRX', make: 'Fenwick', model: 'Ridgeway', year: 2019 },
       { id: '6b1d2018-7294-45c6-90d1-82a32ce56077', registration: 'HM05 OLD', make: 'Fenwick', model: 'Moorland', year: null },
@@ -55,7 +55,10 @@ describe('portal account', () => {
 
     expect(wrapper.get('main h1').text()).toBe('Hello, Juno Treadwell')
     expect(wrapper.get('header').text()).toBe('Hollowmere 4x4')
-    const vehicles = wrapper.get('[role="list"][aria-label="Your vehicles"]').findAll('[role="listitem"]').map((i) => i.text())
+    const vehicles = wrapper
+      .get('[role="list"][aria-label="Your vehicles"]')
+      .findAll('[role="listitem"]')
+      .map((i) => i.text())
     expect(vehicles).toEqual(['HM19 TRXFenwick Ridgeway, 2019', 'HM05 OLDFenwick Moorland'])
     expect(wrapper.get('main').text()).toMatch(/sends you an estimate, it will appear here/)
   })

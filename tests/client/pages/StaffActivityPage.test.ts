@@ -92,7 +92,11 @@ describe('activity log', () => {
   it("shows when in the workshop's time, who, what in plain words, readable details and the IP", async () => {
     const wrapper = await mountPage()
 
-    const cells = wrapper.findAll('tbody tr').at(0)?.findAll('td').map((td) => td.text())
+    const cells = wrapper
+      .findAll('tbody tr')
+      .at(0)
+      ?.findAll('td')
+      .map((td) => td.text())
     expect(cells).toEqual(['1 Jul 2025, 13:00', 'Wren Castell', 'Role changed', 'Pim Sayer: technician → owner', '192.0.2.10'])
     expect(wrapper.findAll('thead th').map((th) => th.text())).toEqual(['Time', 'Who', 'What', 'Details', 'IP address'])
   })

@@ -40,7 +40,16 @@ const owner = staffPrincipal('owner')
 
 function member(role: StaffMember['role'], overrides: Partial<StaffMember> = {}): StaffMember {
   const p = staffPrincipal(role)
-  return { id: p.id, name: p.name, email: p.email, role, active: true, lastSignInAt: null, createdAt: '2025-01-06T09:00:00.000Z', ...overrides }
+  return {
+    id: p.id,
+    name: p.name,
+    email: p.email,
+    role,
+    active: true,
+    lastSignInAt: null,
+    createdAt: '2025-01-06T09:00:00.000Z',
+    ...overrides,
+  }
 }
 
 const team: StaffMember[] = [

@@ -22,7 +22,10 @@ function symptomSection(wrapper: Awaited<ReturnType<typeof mountPage>>, title: s
 }
 
 const checksFor = (section: ReturnType<typeof symptomSection>, cause: string) =>
-  section.get(`ul[aria-label="Checks that confirm: ${cause}"]`).findAll('li').map((li) => li.text())
+  section
+    .get(`ul[aria-label="Checks that confirm: ${cause}"]`)
+    .findAll('li')
+    .map((li) => li.text())
 
 describe('SymptomGuidePage', () => {
   it('lists, for a knock on take-up, each likely cause with the inspection checks that confirm it', async () => {
@@ -31,7 +34,9 @@ describe('SymptomGuidePage', () => {
 
     expect(checksFor(knock, 'Excessive backlash in an axle')).toEqual(['Axle differentials · Backlash at the prop flange'])
     expect(checksFor(knock, 'Prop shaft UJ worn')).toEqual(['Prop shafts · UJ play (twist and lift across the joint)'])
-    expect(checksFor(knock, 'Prop shaft slider splines worn')).toEqual(['Prop shafts · Spline play at the slider (turn one half against the other)'])
+    expect(checksFor(knock, 'Prop shaft slider splines worn')).toEqual([
+      'Prop shafts · Spline play at the slider (turn one half against the other)',
+    ])
     expect(checksFor(knock, 'Backlash between the transfer box outputs')).toEqual([
       'Transfer box · Centre differential and lock test',
       'Transfer box · Output flange bearing lift or play',

@@ -53,7 +53,13 @@ describe('your estimates, on the account page', () => {
   it('lists each estimate with where it stands, its figure and a link to it', async () => {
     vi.mocked(listMyEstimates).mockResolvedValue([
       summary(),
-      summary({ id: '94a6e34b-a5c7-48f9-83a4-b5f607189200', reference: 'E-0031', status: 'deposit_paid', approvedGross: 30000, vehicle: { registration: 'HM05 OLD', make: 'Fenwick', model: 'Moorland' } }),
+      summary({
+        id: '94a6e34b-a5c7-48f9-83a4-b5f607189200',
+        reference: 'E-0031',
+        status: 'deposit_paid',
+        approvedGross: 30000,
+        vehicle: { registration: 'HM05 OLD', make: 'Fenwick', model: 'Moorland' },
+      }),
     ])
     await mountPortalAt('/portal/account')
 
@@ -75,7 +81,9 @@ describe('your estimates, on the account page', () => {
   })
 
   it('offers to try again when the list did not load', async () => {
-    vi.mocked(listMyEstimates).mockRejectedValueOnce(new ApiError(503, 'network_error', 'The server cannot be reached right now (HTTP 503).')).mockResolvedValue([summary()])
+    vi.mocked(listMyEstimates)
+      .mockRejectedValueOnce(new ApiError(503, 'network_error', 'The server cannot be reached right now (HTTP 503).'))
+      .mockResolvedValue([summary()])
     await mountPortalAt('/portal/account')
 
     expect(text(regionNamed('Your estimates', 'section'))).toContain('The server cannot be reached right now (HTTP 503).')

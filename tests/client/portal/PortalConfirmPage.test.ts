@@ -6,7 +6,7 @@ import { ApiError } from '@/api/http'
 import { confirmEstimate, getMyEstimate, startDepositCheckout } from '@/api/portal'
 import type * as PortalApi from '@/api/portal'
 import { formatMoney } from '@shared/money'
-import type { Decision } from '@shared/schemas/estimate'
+import type { Decision } from '@shared/estimate/contract'
 import type { PortalEstimate } from '@shared/schemas/portal'
 import { alertsIn, buttonByName, fieldByLabel, headingText, queryButtonByName } from '../support/dom'
 import { customerPrincipal } from '../support/principals'
@@ -98,7 +98,11 @@ describe('review and confirm', () => {
   it('has a separate consent box that starts unticked, and sends what the customer chose with the version and hash', async () => {
     vi.mocked(getMyEstimate).mockResolvedValueOnce(portalEstimate({ decisions: someApproved }))
     const figures = priced(snapshot(), someApproved).approved
-    vi.mocked(confirmEstimate).mockResolvedValue({ confirmationId: '1c2e6bcd-2d4f-4a78-8b1c-3d7e8f96ba88', depositDue: figures.deposit, next: 'pay' })
+    vi.mocked(confirmEstimate).mockResolvedValue({
+      confirmationId: '1c2e6bcd-2d4f-4a78-8b1c-3d7e8f96ba88',
+      depositDue: figures.deposit,
+      next: 'pay',
+    })
     vi.mocked(getMyEstimate).mockResolvedValueOnce(confirmedEstimate(someApproved, true))
     await mountPortalAt(confirmPath)
 
@@ -134,7 +138,7 @@ describe('review and confirm', () => {
     expect(vi.mocked(confirmEstimate).mock.calls[0]![1].consents.startWithinCancellationPeriod).toBe(false)
   })
 
-  it("goes by the confirm answer when the estimate cannot be fetched again afterwards", async () => {
+  it('goes by the confirm answer when the estimate cannot be fetched again afterwards', async () => {
     vi.mocked(getMyEstimate).mockResolvedValueOnce(portalEstimate({ decisions: someApproved }))
     vi.mocked(confirmEstimate).mockResolvedValue({ confirmationId: '1c2e6bcd-2d4f-4a78-8b1c-3d7e8f96ba88', depositDue: 7944, next: 'pay' })
     vi.mocked(getMyEstimate).mockRejectedValueOnce(new ApiError(0, 'network_error', 'The server cannot be reached.'))

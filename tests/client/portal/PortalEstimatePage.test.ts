@@ -86,7 +86,11 @@ describe('the estimate page', () => {
     vi.mocked(getMyEstimate).mockResolvedValue(portalEstimate())
     await mountPortalAt(estimatePath)
 
-    expect(headingText(2).filter((h) => h.includes(':'))).toEqual(['Fix now — safety: 1 item', 'Fix soon: 1 item', 'Keep an eye on: 1 item'])
+    expect(headingText(2).filter((h) => h.includes(':'))).toEqual([
+      'Fix now — safety: 1 item',
+      'Fix soon: 1 item',
+      'Keep an eye on: 1 item',
+    ])
     const urgent = regionNamed('Fix now — safety: 1 item', 'section')
     expect(urgent.querySelector('h2 .bg-urgent svg')).not.toBeNull()
     expect([...urgent.querySelectorAll('h3')].map(text)).toEqual(['2. Front CV joint'])
@@ -101,7 +105,14 @@ describe('the estimate page', () => {
     const hub = text(item('1. Front hub seal'))
     expect(hub).toContain('The seal is weeping oil onto the brake disc.')
     const explanation = [...item('1. Front hub seal').querySelectorAll('dt, dd')].map(text)
-    expect(explanation).toEqual(['What we found', 'Oil behind the hub.', 'Why it matters', 'Oil on the disc weakens the brakes.', "If it's left", 'The bearing runs dry and fails.'])
+    expect(explanation).toEqual([
+      'What we found',
+      'Oil behind the hub.',
+      'Why it matters',
+      'Oil on the disc weakens the brakes.',
+      "If it's left",
+      'The bearing runs dry and fails.',
+    ])
     const expected = priced(snapshot(), pendingDecisions).items.find((i) => i.id === 'item-hub')!.gross
     expect(hub).toContain(`${money(expected)} incl. VAT`)
     expect(text(item('2. Front CV joint'))).toContain('Measured: Play 1.2 mm')
@@ -161,7 +172,9 @@ describe('the estimate page', () => {
     expect(summaryFigure('Approved total')).toBe(money(server.gross))
     expect(summaryFigure('Deposit')).toBe(money(server.deposit))
     expect(text(card)).not.toContain('Saving your choice…')
-    expect(document.querySelector('[aria-live="polite"]')?.textContent).toBe(`Approved total now ${money(server.gross)}, deposit ${money(server.deposit)}.`)
+    expect(document.querySelector('[aria-live="polite"]')?.textContent).toBe(
+      `Approved total now ${money(server.gross)}, deposit ${money(server.deposit)}.`,
+    )
   })
 
   it('shows the shared-access saving on the later item once both are approved', async () => {
@@ -177,8 +190,11 @@ describe('the estimate page', () => {
 
   it("shows the server's words beside an item it refuses and puts the choice back", async () => {
     vi.mocked(getMyEstimate).mockResolvedValue(portalEstimate())
-    const words = 'Item 3 (CV boot clips) can only be done together with item 2 (Front CV joint). Approve that item first, or decline this one.'
-    vi.mocked(putDecision).mockRejectedValue(new ApiError(422, 'requires', words, [{ path: ['decisions', 'item-cv'], message: 'needs item 2' }]))
+    const words =
+      'Item 3 (CV boot clips) can only be done together with item 2 (Front CV joint). Approve that item first, or decline this one.'
+    vi.mocked(putDecision).mockRejectedValue(
+      new ApiError(422, 'requires', words, [{ path: ['decisions', 'item-cv'], message: 'needs item 2' }]),
+    )
     await mountPortalAt(estimatePath)
 
     const card = item('3. CV boot clips')
@@ -192,7 +208,9 @@ describe('the estimate page', () => {
 
   it('says the workshop has updated the estimate when a choice meets a newer version, and goes to it', async () => {
     vi.mocked(getMyEstimate).mockResolvedValueOnce(portalEstimate())
-    vi.mocked(putDecision).mockRejectedValue(new ApiError(409, 'superseded', 'The workshop has sent a newer version (version 2).', [], { latestVersion: 2 }))
+    vi.mocked(putDecision).mockRejectedValue(
+      new ApiError(409, 'superseded', 'The workshop has sent a newer version (version 2).', [], { latestVersion: 2 }),
+    )
     await mountPortalAt(estimatePath)
 
     decisionButton(item('1. Front hub seal'), /^Approve item 1$/).click()
@@ -213,12 +231,16 @@ describe('the estimate page', () => {
 
   it('keeps "Review and confirm" disabled, saying why, until every item is decided', async () => {
     vi.mocked(getMyEstimate).mockResolvedValue(portalEstimate({ decisions: { ...pendingDecisions, 'item-hub': 'approved' } }))
-    vi.mocked(putDecision).mockImplementation(async (_id, itemId, body) => answer({ 'item-hub': 'approved', 'item-cv': 'declined', 'item-boot': 'pending', [itemId]: body.decision }))
+    vi.mocked(putDecision).mockImplementation(async (_id, itemId, body) =>
+      answer({ 'item-hub': 'approved', 'item-cv': 'declined', 'item-boot': 'pending', [itemId]: body.decision }),
+    )
     const { router } = await mountPortalAt(estimatePath)
 
     const review = buttonByName('Review and confirm')
     expect(review.hasAttribute('disabled')).toBe(true)
-    expect(document.getElementById(review.getAttribute('aria-describedby')!)?.textContent).toBe('Approve or decline the 2 items still open first.')
+    expect(document.getElementById(review.getAttribute('aria-describedby')!)?.textContent).toBe(
+      'Approve or decline the 2 items still open first.',
+    )
 
     decisionButton(item('2. Front CV joint'), /^Decline item 2$/).click()
     await flushPromises()

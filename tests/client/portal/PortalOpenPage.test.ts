@@ -21,7 +21,8 @@ vi.mock('@/api/portal', async (importOriginal) => ({
 }))
 
 const token = 'eTkR7v2QmZ9xWc4pLs8nHb3JdF6gYa1u-invented'
-const renewAnswer = 'If that link belongs to an estimate that can still be decided on, a fresh link is on its way to the e-mail address the workshop has for you.'
+const renewAnswer =
+  'If that link belongs to an estimate that can still be decided on, a fresh link is on its way to the e-mail address the workshop has for you.'
 
 beforeAll(() => preloadRouteComponents())
 
@@ -85,8 +86,12 @@ describe('opening the link from the e-mail', () => {
   })
 
   it('offers a fresh link for an expired link, and shows a refusal to send one in its own words', async () => {
-    vi.mocked(openEstimateLink).mockRejectedValue(new ApiError(410, 'link_expired', 'This link worked until the end of 2026-03-31.', [], { newerVersion: false, renewable: true }))
-    vi.mocked(renewEstimateLink).mockRejectedValue(new ApiError(429, 'too_many_requests', 'Too many attempts. Please wait a few minutes and try again.'))
+    vi.mocked(openEstimateLink).mockRejectedValue(
+      new ApiError(410, 'link_expired', 'This link worked until the end of 2026-03-31.', [], { newerVersion: false, renewable: true }),
+    )
+    vi.mocked(renewEstimateLink).mockRejectedValue(
+      new ApiError(429, 'too_many_requests', 'Too many attempts. Please wait a few minutes and try again.'),
+    )
     await mountPortalAt(`/portal/open?token=${token}`)
 
     expect(headingText(1)).toEqual(['This link has expired'])

@@ -1,5 +1,5 @@
 import { calculateEstimate } from '@shared/estimate'
-import type { Decision } from '@shared/schemas/estimate'
+import type { Decision } from '@shared/estimate/contract'
 import { type EstimateSnapshot, snapshotToEngineInput } from '@shared/schemas/estimates'
 import type { PortalDeposit, PortalEstimate } from '@shared/schemas/portal'
 import { customerPrincipal } from '../support/principals'
@@ -44,7 +44,17 @@ export function snapshot(overrides: Partial<EstimateSnapshot> = {}): EstimateSna
         photoIds: [portalIds.photoA, portalIds.photoB],
         requires: [],
         lines: [
-          { id: 'l1', kind: 'labour', description: 'Strip hub, replace seal', hours: '1.5', rate: 8000, taxRate: '20', accessSteps: ['hub-off'], operationCode: null, category: 'standard' },
+          {
+            id: 'l1',
+            kind: 'labour',
+            description: 'Strip hub, replace seal',
+            hours: '1.5',
+            rate: 8000,
+            taxRate: '20',
+            accessSteps: ['hub-off'],
+            operationCode: null,
+            category: 'standard',
+          },
           { id: 'l2', kind: 'part', description: 'Hub seal', quantity: '2', unitPrice: 1250, taxRate: '20', partNumber: null },
         ],
       },
@@ -59,7 +69,17 @@ export function snapshot(overrides: Partial<EstimateSnapshot> = {}): EstimateSna
         photoIds: [],
         requires: [],
         lines: [
-          { id: 'l3', kind: 'labour', description: 'Replace CV joint', hours: '2', rate: 8000, taxRate: '20', accessSteps: ['hub-off'], operationCode: null, category: 'standard' },
+          {
+            id: 'l3',
+            kind: 'labour',
+            description: 'Replace CV joint',
+            hours: '2',
+            rate: 8000,
+            taxRate: '20',
+            accessSteps: ['hub-off'],
+            operationCode: null,
+            category: 'standard',
+          },
           { id: 'l4', kind: 'part', description: 'CV joint', quantity: '1', unitPrice: 9000, taxRate: '20', partNumber: null },
         ],
       },
@@ -85,7 +105,10 @@ export function snapshot(overrides: Partial<EstimateSnapshot> = {}): EstimateSna
   }
 }
 
-export const pendingDecisions = { 'item-hub': 'pending', 'item-cv': 'pending', 'item-boot': 'pending' } as const satisfies Record<string, Decision>
+export const pendingDecisions = { 'item-hub': 'pending', 'item-cv': 'pending', 'item-boot': 'pending' } as const satisfies Record<
+  string,
+  Decision
+>
 
 /** The server prices with the same engine; so do the fakes standing in for it here. */
 export function priced(snap: EstimateSnapshot, decisions: Record<string, Decision>) {
@@ -118,7 +141,14 @@ export function portalEstimate(overrides: Partial<PortalEstimate> & { decisions?
     deposit: deposit(),
     questions: [],
     cancellation: {
-      trader: { name: 'Hollowmere 4x4 Ltd', addressLines: ['Unit 4, Tarn Yard', 'Hollowmere'], postcode: 'HM1 2TY', phone: '01632 960 555', email: 'desk@hollowmere.test', vatNumber: 'GB000000000' },
+      trader: {
+        name: 'Hollowmere 4x4 Ltd',
+        addressLines: ['Unit 4, Tarn Yard', 'Hollowmere'],
+        postcode: 'HM1 2TY',
+        phone: '01632 960 555',
+        email: 'desk@hollowmere.test',
+        vatNumber: 'GB000000000',
+      },
       periodDays: 14,
       periodText: ['You have 14 days to cancel.', 'To cancel, tell the workshop.'],
       startWithinPeriodText: 'Please start the work within the 14 days. I understand I will pay for work done if I then cancel.',

@@ -14,7 +14,14 @@ afterEach(() => {
 
 describe('the portal API client', () => {
   it('keeps the refusal details a page needs to offer the next step', async () => {
-    vi.stubGlobal('fetch', vi.fn(async () => jsonResponse(410, { error: { code: 'link_superseded', message: 'Newer version', details: { newerVersion: true, renewable: true } } })))
+    vi.stubGlobal(
+      'fetch',
+      vi.fn(async () =>
+        jsonResponse(410, {
+          error: { code: 'link_superseded', message: 'Newer version', details: { newerVersion: true, renewable: true } },
+        }),
+      ),
+    )
 
     const error = await openEstimateLink('x'.repeat(40)).catch((e: unknown) => e)
 
@@ -38,7 +45,11 @@ describe('the portal API client', () => {
     vi.stubGlobal('fetch', fetchMock)
 
     await putDecision(id, 'item-cv', { version: 2, decision: 'approved' })
-    await confirmEstimate(id, { version: 2, hash: 'a'.repeat(64), consents: { startWithinCancellationPeriod: false, cancellationInformationShown: true } })
+    await confirmEstimate(id, {
+      version: 2,
+      hash: 'a'.repeat(64),
+      consents: { startWithinCancellationPeriod: false, cancellationInformationShown: true },
+    })
     await getMyEstimate(id, 1)
 
     const calls = fetchMock.mock.calls as unknown as [string, RequestInit][]

@@ -2,7 +2,7 @@ import { createPinia, setActivePinia } from 'pinia'
 import { beforeEach, describe, expect, it, vi } from 'vitest'
 import { getMyEstimate, putDecision } from '@/api/portal'
 import { usePortalEstimateStore } from '@/stores/portal-estimate'
-import type { Decision } from '@shared/schemas/estimate'
+import type { Decision } from '@shared/estimate/contract'
 import type { DecisionResponse } from '@shared/schemas/portal'
 import { deferred } from '../support/records'
 import { pendingDecisions, portalEstimate, portalIds, priced, snapshot } from './fixtures'
@@ -46,10 +46,12 @@ describe('deciding', () => {
 
   it('sends only the last of several quick taps on the same item', async () => {
     const first = deferred<DecisionResponse>()
-    vi.mocked(putDecision).mockReturnValueOnce(first.promise).mockImplementation(async (_id, itemId, body) => {
-      const decisions: Record<string, Decision> = { ...pendingDecisions, 'item-hub': 'approved', [itemId]: body.decision }
-      return { version: 1, decisions, result: priced(snapshot(), decisions) }
-    })
+    vi.mocked(putDecision)
+      .mockReturnValueOnce(first.promise)
+      .mockImplementation(async (_id, itemId, body) => {
+        const decisions: Record<string, Decision> = { ...pendingDecisions, 'item-hub': 'approved', [itemId]: body.decision }
+        return { version: 1, decisions, result: priced(snapshot(), decisions) }
+      })
     const store = usePortalEstimateStore()
     await store.load(portalIds.estimate)
 

@@ -51,9 +51,7 @@ describe('staff pages', () => {
     const route = await visit('/team', staffPrincipal('technician'))
 
     expect(route.name).toBe('staff-home')
-    expect(useNotificationsStore().queue).toMatchObject([
-      { kind: 'info', text: 'Team is not available for your role (Technician).' },
-    ])
+    expect(useNotificationsStore().queue).toMatchObject([{ kind: 'info', text: 'Team is not available for your role (Technician).' }])
   })
 
   it('keep the activity log to owners', async () => {

@@ -222,7 +222,10 @@ describe('a 401 from any request', () => {
   }
 
   async function sessionEnds() {
-    vi.stubGlobal('fetch', vi.fn(async () => jsonResponse(401, { error: { code: 'unauthorized', message: 'Please sign in' } })))
+    vi.stubGlobal(
+      'fetch',
+      vi.fn(async () => jsonResponse(401, { error: { code: 'unauthorized', message: 'Please sign in' } })),
+    )
     await request('GET', '/staff').catch(() => undefined)
     await vi.waitFor(() => expect(useAuthStore().user).toBeNull())
   }

@@ -30,7 +30,15 @@ function report(overrides: Partial<ImportReport> = {}): ImportReport {
   }
 }
 
-const step = (code: string): AccessStep => ({ id: `00000000-0000-4000-8000-00000000000${code.length}`, code, name: code, hours: '1', includes: [], totalHours: '1', usedBy: 0 })
+const step = (code: string): AccessStep => ({
+  id: `00000000-0000-4000-8000-00000000000${code.length}`,
+  code,
+  name: code,
+  hours: '1',
+  includes: [],
+  totalHours: '1',
+  usedBy: 0,
+})
 
 beforeEach(() => {
   setActivePinia(createPinia())
@@ -76,7 +84,12 @@ describe('useCatalogueImportStore', () => {
   })
 
   it('does not allow an import while the dry run found problems', async () => {
-    vi.mocked(checkImport).mockResolvedValue(report({ errors: [{ row: 3, column: 'hours', message: 'Write the hours as a number' }], summary: { added: 1, changed: 0, unchanged: 0 } }))
+    vi.mocked(checkImport).mockResolvedValue(
+      report({
+        errors: [{ row: 3, column: 'hours', message: 'Write the hours as a number' }],
+        summary: { added: 1, changed: 0, unchanged: 0 },
+      }),
+    )
     const importer = useCatalogueImportStore()
     importer.start('access-steps')
     await importer.check('steps.csv', csvText)
@@ -86,7 +99,9 @@ describe('useCatalogueImportStore', () => {
   })
 
   it('does not offer an import that would change nothing', async () => {
-    vi.mocked(checkImport).mockResolvedValue(report({ rows: [{ row: 2, key: 'HUB', action: 'keep', changed: [] }], summary: { added: 0, changed: 0, unchanged: 1 } }))
+    vi.mocked(checkImport).mockResolvedValue(
+      report({ rows: [{ row: 2, key: 'HUB', action: 'keep', changed: [] }], summary: { added: 0, changed: 0, unchanged: 1 } }),
+    )
     const importer = useCatalogueImportStore()
     importer.start('access-steps')
     await importer.check('steps.csv', csvText)
@@ -96,7 +111,9 @@ describe('useCatalogueImportStore', () => {
   it('shows a refused commit’s rows and columns as problems, without a pop-up', async () => {
     vi.mocked(checkImport).mockResolvedValue(report())
     vi.mocked(commitImport).mockRejectedValue(
-      new ApiError(422, 'import_has_errors', 'The file has problems, so nothing was imported.', [{ path: [2, 'includes'], message: 'Access steps cannot include each other in a loop: A → B → A.' }]),
+      new ApiError(422, 'import_has_errors', 'The file has problems, so nothing was imported.', [
+        { path: [2, 'includes'], message: 'Access steps cannot include each other in a loop: A → B → A.' },
+      ]),
     )
     const importer = useCatalogueImportStore()
     importer.start('access-steps')
@@ -105,7 +122,9 @@ describe('useCatalogueImportStore', () => {
 
     expect(importer.phase).toBe('checked')
     expect(importer.canCommit).toBe(false)
-    expect(importer.problems).toEqual([{ row: 2, column: 'includes', message: 'Access steps cannot include each other in a loop: A → B → A.' }])
+    expect(importer.problems).toEqual([
+      { row: 2, column: 'includes', message: 'Access steps cannot include each other in a loop: A → B → A.' },
+    ])
     expect(useNotificationsStore().queue).toEqual([])
   })
 
@@ -150,7 +169,9 @@ describe('useLabourStore', () => {
   })
 
   it('keeps a refused loop as the form’s problem rather than a pop-up', async () => {
-    const loop = new ApiError(422, 'validation_failed', 'Some of the details are not right.', [{ path: ['body', 'includes'], message: 'Access steps cannot include each other in a loop: A → B → A.' }])
+    const loop = new ApiError(422, 'validation_failed', 'Some of the details are not right.', [
+      { path: ['body', 'includes'], message: 'Access steps cannot include each other in a loop: A → B → A.' },
+    ])
     vi.mocked(saveAccessStep).mockRejectedValue(loop)
     const labour = useLabourStore()
     expect(await labour.saveStep({ code: 'A', name: 'A', hours: '1', includes: ['B'] }, 'x')).toBeNull()

@@ -39,7 +39,8 @@ const input: CustomerInput = {
 
 beforeEach(() => {
   setActivePinia(createPinia())
-  for (const fn of [listCustomers, getCustomer, createCustomer, updateCustomer, archiveCustomer, restoreCustomer, deleteCustomer]) vi.mocked(fn).mockReset()
+  for (const fn of [listCustomers, getCustomer, createCustomer, updateCustomer, archiveCustomer, restoreCustomer, deleteCustomer])
+    vi.mocked(fn).mockReset()
 })
 
 describe('the customers list', () => {
@@ -179,7 +180,11 @@ describe('one customer', () => {
   })
 
   it('keeps a refusal to delete (409) for the dialog, and the customer in the list', async () => {
-    const inUse = new ApiError(409, 'in_use', 'This customer has vehicles or jobs on record, so they cannot be deleted. Archive them instead.')
+    const inUse = new ApiError(
+      409,
+      'in_use',
+      'This customer has vehicles or jobs on record, so they cannot be deleted. Archive them instead.',
+    )
     vi.mocked(listCustomers).mockResolvedValue(page([customer()], 1))
     vi.mocked(deleteCustomer).mockRejectedValue(inUse)
     const customers = useCustomersStore()
@@ -205,7 +210,9 @@ describe('one customer', () => {
   })
 
   it('looks keepers up without touching the table', async () => {
-    vi.mocked(listCustomers).mockResolvedValueOnce(page([customer()], 1)).mockResolvedValueOnce(page([customer({ name: 'Ives Marlow' })], 1))
+    vi.mocked(listCustomers)
+      .mockResolvedValueOnce(page([customer()], 1))
+      .mockResolvedValueOnce(page([customer({ name: 'Ives Marlow' })], 1))
     const customers = useCustomersStore()
     await customers.load()
 

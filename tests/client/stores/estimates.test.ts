@@ -30,7 +30,13 @@ vi.mock('@/api/catalogue', () => ({ listAccessSteps: vi.fn(), searchParts: vi.fn
 const mocks = [listEstimates, getEstimate, createEstimate, saveDraft, addFindings, sendEstimate, listFindings, listAccessSteps]
 
 function liveEvent(overrides: Partial<LiveEvent> = {}): LiveEvent {
-  return { type: 'estimate.decision', workshopId: testWorkshop.id, estimateId: estimateIds.estimate, at: '2026-03-02T14:03:00.000Z', ...overrides }
+  return {
+    type: 'estimate.decision',
+    workshopId: testWorkshop.id,
+    estimateId: estimateIds.estimate,
+    at: '2026-03-02T14:03:00.000Z',
+    ...overrides,
+  }
 }
 
 /** The detail the server answers a save with: the draft it was sent, one revision on. */
@@ -142,7 +148,9 @@ describe('useEstimateStore autosave', () => {
   })
 
   it('offers a retry after a failed save and does not lose the change', async () => {
-    vi.mocked(saveDraft).mockRejectedValueOnce(new ApiError(0, 'network_error', 'The server cannot be reached. Check the connection and try again.'))
+    vi.mocked(saveDraft).mockRejectedValueOnce(
+      new ApiError(0, 'network_error', 'The server cannot be reached. Check the connection and try again.'),
+    )
     const store = await loaded()
     store.updateItem('item-hub', { customerNote: 'Seal weeping onto the brake disc' })
     await vi.advanceTimersByTimeAsync(AUTOSAVE_DELAY_MS)
@@ -245,8 +253,24 @@ describe('useEstimateStore editing and actions', () => {
   it('adds labour with its access steps and every step they include', async () => {
     vi.mocked(listAccessSteps).mockResolvedValue({
       items: [
-        { id: '11111111-1111-4111-8111-111111111111', code: 'WHEEL', name: 'Wheel off', hours: '0.3', includes: [], totalHours: '0.3', usedBy: 3 },
-        { id: '22222222-2222-4222-8222-222222222222', code: 'HUB', name: 'Hub off', hours: '0.9', includes: ['WHEEL'], totalHours: '1.2', usedBy: 2 },
+        {
+          id: '11111111-1111-4111-8111-111111111111',
+          code: 'WHEEL',
+          name: 'Wheel off',
+          hours: '0.3',
+          includes: [],
+          totalHours: '0.3',
+          usedBy: 3,
+        },
+        {
+          id: '22222222-2222-4222-8222-222222222222',
+          code: 'HUB',
+          name: 'Hub off',
+          hours: '0.9',
+          includes: ['WHEEL'],
+          totalHours: '1.2',
+          usedBy: 2,
+        },
       ],
     })
     const store = await loaded()
@@ -273,7 +297,15 @@ describe('useEstimateStore editing and actions', () => {
     store.addLabour('item-hub', op, '20')
 
     const line = store.draft?.items[0]?.lines[2]
-    expect(line).toMatchObject({ kind: 'labour', description: 'Replace front CV joint', hours: '3.5', rate: 9500, category: 'specialist', operationCode: 'CV-L', accessSteps: ['HUB'] })
+    expect(line).toMatchObject({
+      kind: 'labour',
+      description: 'Replace front CV joint',
+      hours: '3.5',
+      rate: 9500,
+      category: 'specialist',
+      operationCode: 'CV-L',
+      accessSteps: ['HUB'],
+    })
     expect(store.draft?.accessSteps).toEqual([
       { code: 'HUB', hours: '0.9', includes: ['WHEEL'], label: 'Hub off' },
       { code: 'WHEEL', hours: '0.3', includes: [], label: 'Wheel off' },
@@ -297,7 +329,24 @@ describe('useEstimateStore editing and actions', () => {
   it('saves waiting changes before sending, then sends that revision', async () => {
     savedAnswer()
     vi.mocked(sendEstimate).mockImplementation(async (_id, revision) =>
-      estimateDetail({ status: 'sent', revision, hasUnsentChanges: false, versions: [{ id: estimateIds.version, version: 1, hash: 'ab', sentAt: '2026-03-02T14:03:00.000Z', expiresOn: '2026-03-16', supersededAt: null, openedAt: null, confirmedAt: null, proposedGross: 17400 }] }),
+      estimateDetail({
+        status: 'sent',
+        revision,
+        hasUnsentChanges: false,
+        versions: [
+          {
+            id: estimateIds.version,
+            version: 1,
+            hash: 'ab',
+            sentAt: '2026-03-02T14:03:00.000Z',
+            expiresOn: '2026-03-16',
+            supersededAt: null,
+            openedAt: null,
+            confirmedAt: null,
+            proposedGross: 17400,
+          },
+        ],
+      }),
     )
     const store = await loaded()
     store.updateSettings({ message: 'Ready when you are.' })
@@ -311,7 +360,9 @@ describe('useEstimateStore editing and actions', () => {
   })
 
   it('adds findings as items and shows what the server could not price', async () => {
-    vi.mocked(addFindings).mockResolvedValue(estimateDetail({ revision: 4, notices: ['"Hub seal": the suggested part HS-9 is not in your parts list; add the part by hand.'] }))
+    vi.mocked(addFindings).mockResolvedValue(
+      estimateDetail({ revision: 4, notices: ['"Hub seal": the suggested part HS-9 is not in your parts list; add the part by hand.'] }),
+    )
     const store = await loaded()
 
     await store.addFindings([estimateIds.findingHub])
@@ -335,7 +386,11 @@ describe('useEstimatesStore', () => {
 
   it('starts an estimate from every finding on the job that is not “All good”', async () => {
     const finding = (id: string, severity: Finding['severity']) => ({ id, severity }) as Finding
-    vi.mocked(listFindings).mockResolvedValue([finding(estimateIds.findingHub, 'urgent'), finding(testIds.vehicle, 'ok'), finding(estimateIds.findingSeal, 'watch')])
+    vi.mocked(listFindings).mockResolvedValue([
+      finding(estimateIds.findingHub, 'urgent'),
+      finding(testIds.vehicle, 'ok'),
+      finding(estimateIds.findingSeal, 'watch'),
+    ])
     vi.mocked(createEstimate).mockResolvedValue(estimateDetail())
     const estimates = useEstimatesStore()
 
@@ -348,7 +403,9 @@ describe('useEstimatesStore', () => {
   })
 
   it('finds the estimate already on a job', async () => {
-    vi.mocked(listEstimates).mockResolvedValueOnce(page([estimateSummary()], 1)).mockResolvedValueOnce(page([], 0))
+    vi.mocked(listEstimates)
+      .mockResolvedValueOnce(page([estimateSummary()], 1))
+      .mockResolvedValueOnce(page([], 0))
     const estimates = useEstimatesStore()
 
     await estimates.findForJob(testIds.job)

@@ -48,7 +48,14 @@ function inspection(status: Inspection['status'], results: RecordResult[] = []):
     results: results.map((r, i) => {
       const check = starterTemplate.definition.checks.find((c) => c.code === r.checkCode)!
       const suggestion = suggestSeverity(check, r.value)
-      return { ...r, id: `33333333-3333-4333-8333-33333333333${i}`, suggestedSeverity: suggestion.severity, detail: suggestion.detail, recordedAt: '2025-05-01T09:00:00Z', recordedBy: null }
+      return {
+        ...r,
+        id: `33333333-3333-4333-8333-33333333333${i}`,
+        suggestedSeverity: suggestion.severity,
+        detail: suggestion.detail,
+        recordedAt: '2025-05-01T09:00:00Z',
+        recordedBy: null,
+      }
     }),
     startedAt: '2025-05-01T08:00:00Z',
     finishedAt: null,

@@ -26,7 +26,9 @@ describe('useJobsStore', () => {
 
     await jobs.setFilters({ status: 'waiting_for_customer' })
     await jobs.setFilters({ technicianId: testIds.customer })
-    expect(listJobs).toHaveBeenLastCalledWith(expect.objectContaining({ status: 'waiting_for_customer', technicianId: testIds.customer, page: 1 }))
+    expect(listJobs).toHaveBeenLastCalledWith(
+      expect.objectContaining({ status: 'waiting_for_customer', technicianId: testIds.customer, page: 1 }),
+    )
 
     await jobs.setFilters({ status: undefined })
     expect(listJobs).toHaveBeenLastCalledWith(expect.objectContaining({ status: undefined }))
@@ -48,7 +50,9 @@ describe('useJobsStore', () => {
         { path: ['body', 'promisedFor'], message: 'The promised date cannot be before the booking date' },
       ]),
     )
-    vi.mocked(deleteJob).mockRejectedValue(new ApiError(409, 'in_use', 'This job has an inspection or estimate on record, so it cannot be deleted.'))
+    vi.mocked(deleteJob).mockRejectedValue(
+      new ApiError(409, 'in_use', 'This job has an inspection or estimate on record, so it cannot be deleted.'),
+    )
     const jobs = useJobsStore()
 
     await expect(jobs.save(input)).resolves.toBeNull()
@@ -73,7 +77,9 @@ describe('useJobsStore', () => {
   })
 
   it('forgets the job on another page while the next one loads', async () => {
-    vi.mocked(getJob).mockResolvedValueOnce(job()).mockRejectedValueOnce(new ApiError(404, 'not_found', 'No such job in this workshop.'))
+    vi.mocked(getJob)
+      .mockResolvedValueOnce(job())
+      .mockRejectedValueOnce(new ApiError(404, 'not_found', 'No such job in this workshop.'))
     const jobs = useJobsStore()
     await jobs.get(testIds.job)
 

@@ -55,9 +55,7 @@ describe('useSystemStore', () => {
     expect(system.databaseState).toBe('down')
     expect(system.error).toBe(notReady)
     expect(system.isLoading).toBe(false)
-    expect(useNotificationsStore().queue).toMatchObject([
-      { kind: 'error', text: 'The database cannot be reached right now.' },
-    ])
+    expect(useNotificationsStore().queue).toMatchObject([{ kind: 'error', text: 'The database cannot be reached right now.' }])
   })
 
   it('when the server cannot be reached, marks it down and leaves the database unknown', async () => {

@@ -17,11 +17,18 @@ vi.mock('@/api/vehicles', () => ({
   deleteVehicle: vi.fn(),
 }))
 
-const input: VehicleInput = { customerId: testIds.customer, registration: 'HM15 KNX', make: 'Brackwater', model: 'Ridgeline 110', odometerUnit: 'mi' }
+const input: VehicleInput = {
+  customerId: testIds.customer,
+  registration: 'HM15 KNX',
+  make: 'Brackwater',
+  model: 'Ridgeline 110',
+  odometerUnit: 'mi',
+}
 
 beforeEach(() => {
   setActivePinia(createPinia())
-  for (const fn of [listVehicles, getVehicle, createVehicle, updateVehicle, archiveVehicle, restoreVehicle, deleteVehicle]) vi.mocked(fn).mockReset()
+  for (const fn of [listVehicles, getVehicle, createVehicle, updateVehicle, archiveVehicle, restoreVehicle, deleteVehicle])
+    vi.mocked(fn).mockReset()
 })
 
 describe('useVehiclesStore', () => {
@@ -30,7 +37,14 @@ describe('useVehiclesStore', () => {
     const vehicles = useVehiclesStore()
 
     await vehicles.load()
-    expect(listVehicles).toHaveBeenLastCalledWith({ archived: false, page: 1, pageSize: 25, sortBy: 'registration', sortDesc: false, q: undefined })
+    expect(listVehicles).toHaveBeenLastCalledWith({
+      archived: false,
+      page: 1,
+      pageSize: 25,
+      sortBy: 'registration',
+      sortDesc: false,
+      q: undefined,
+    })
     expect(vehicles.items).toEqual([vehicle()])
 
     await vehicles.setFilters({ archived: true })
@@ -71,7 +85,9 @@ describe('useVehiclesStore', () => {
   })
 
   it('archives instead when deleting is refused', async () => {
-    vi.mocked(deleteVehicle).mockRejectedValue(new ApiError(409, 'in_use', 'This vehicle has jobs on record, so it cannot be deleted. Archive it instead.'))
+    vi.mocked(deleteVehicle).mockRejectedValue(
+      new ApiError(409, 'in_use', 'This vehicle has jobs on record, so it cannot be deleted. Archive it instead.'),
+    )
     vi.mocked(archiveVehicle).mockResolvedValue(vehicle({ archived: true }))
     const vehicles = useVehiclesStore()
 

@@ -7,7 +7,9 @@ const text = (el: Element) => (el.textContent ?? '').replace(/\s+/g, ' ').trim()
 /** The button (or link styled as one) whose visible text or aria-label is `name`. */
 export function buttonNamed(root: Root, name: string | RegExp): DOMWrapper<HTMLElement> {
   const matches = (s: string) => (typeof name === 'string' ? s === name : name.test(s))
-  const found = root.findAll<HTMLElement>('button, a[href], [role="button"]').find((b) => matches(text(b.element)) || matches(b.attributes('aria-label') ?? ''))
+  const found = root
+    .findAll<HTMLElement>('button, a[href], [role="button"]')
+    .find((b) => matches(text(b.element)) || matches(b.attributes('aria-label') ?? ''))
   if (!found) throw new Error(`No button named ${String(name)}`)
   return found
 }

@@ -134,7 +134,14 @@ export async function runAxe(page: Page, label: string): Promise<AxeReport> {
   for (const v of results.violations) if (v.impact) byImpact[v.impact] += v.nodes.length
   const file = path.join(resultsDir, 'axe', `${label.replace(/[^\w-]+/g, '-')}.json`)
   fs.mkdirSync(path.dirname(file), { recursive: true })
-  fs.writeFileSync(file, JSON.stringify({ label, url: results.url, byImpact, violations: results.violations, incomplete: results.incomplete.map((i) => i.id) }, null, 2))
+  fs.writeFileSync(
+    file,
+    JSON.stringify(
+      { label, url: results.url, byImpact, violations: results.violations, incomplete: results.incomplete.map((i) => i.id) },
+      null,
+      2,
+    ),
+  )
   const ids = results.violations.map((v) => `${v.id} (${v.impact})`).join(', ')
   process.stdout.write(
     `[axe] ${label}: ${byImpact.critical} critical, ${byImpact.serious} serious, ${byImpact.moderate} moderate, ${byImpact.minor} minor${ids ? ` — ${ids}` : ''}\n`,

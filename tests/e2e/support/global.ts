@@ -44,7 +44,9 @@ export default async function setup(project: TestProject) {
     throw err
   }
   project.provide('e2e', stack.context)
-  process.stdout.write(`[e2e] ready in ${((Date.now() - started) / 1000).toFixed(1)} s; app output in ${path.relative(projectRoot, stack.appLog)}\n`)
+  process.stdout.write(
+    `[e2e] ready in ${((Date.now() - started) / 1000).toFixed(1)} s; app output in ${path.relative(projectRoot, stack.appLog)}\n`,
+  )
 
   return async () => {
     await stack.stop()

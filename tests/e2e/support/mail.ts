@@ -40,7 +40,8 @@ export async function readLatestMail(
       .sort((a, b) => Date.parse(a.time) - Date.parse(b.time))
       .at(-1)
     if (match) return match
-    if (Date.now() > deadline) throw new Error(`No e-mail to ${to} with “${subjectIncludes}” in its subject arrived within ${opts.timeoutMs ?? 15_000} ms`)
+    if (Date.now() > deadline)
+      throw new Error(`No e-mail to ${to} with “${subjectIncludes}” in its subject arrived within ${opts.timeoutMs ?? 15_000} ms`)
     await new Promise((r) => setTimeout(r, 150))
   }
 }

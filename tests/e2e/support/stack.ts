@@ -84,7 +84,13 @@ export async function startE2eStack(opts: { clientDist: string; logDir: string }
       taken.push(port)
       return port
     }
-    const ports = { postgres: await freePort(), app: await freePort(), smtp: await freePort(), mailWeb: await freePort(), payments: await freePort() }
+    const ports = {
+      postgres: await freePort(),
+      app: await freePort(),
+      smtp: await freePort(),
+      mailWeb: await freePort(),
+      payments: await freePort(),
+    }
 
     let t = Date.now()
     postgres = await startPostgres({ dataDir: path.join(dataRoot, 'pg'), port: ports.postgres, throwaway: true })
@@ -140,7 +146,11 @@ export async function startE2eStack(opts: { clientDist: string; logDir: string }
     app.process.once('exit', () => logStream.end())
 
     // Generous: on two cores shared with other work, tsx compiling three programs at once can take a while.
-    await Promise.all([waitForPort(ports.smtp, STARTUP_MS), waitForPort(ports.mailWeb, STARTUP_MS), waitForPort(ports.payments, STARTUP_MS)])
+    await Promise.all([
+      waitForPort(ports.smtp, STARTUP_MS),
+      waitForPort(ports.mailWeb, STARTUP_MS),
+      waitForPort(ports.payments, STARTUP_MS),
+    ])
     await waitUntilReady(`${baseURL}/api/ready`, app, appLog, STARTUP_MS)
     say(`app, mail catcher and payments fake ready in ${seconds(t)} at ${baseURL}`)
 

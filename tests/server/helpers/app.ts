@@ -13,7 +13,10 @@ import { createEmailOutbox, createEmailWorker } from '../../../server/modules/em
 /** The real app on the test database, without a built client. */
 export function makeTestApp(overrides: Record<string, string> = {}) {
   const uploads = path.join(os.tmpdir(), `tickover-test-uploads-${process.pid}`)
-  const env = { ...loadEnv({ ...process.env, LOG_LEVEL: 'silent', RATE_LIMITS: 'false', UPLOAD_DIR: uploads, ...overrides }), CLIENT_DIST: '' }
+  const env = {
+    ...loadEnv({ ...process.env, LOG_LEVEL: 'silent', RATE_LIMITS: 'false', UPLOAD_DIR: uploads, ...overrides }),
+    CLIENT_DIST: '',
+  }
   const logger = pino({ level: 'silent' })
   const { db, pool } = createDatabase(env.DATABASE_URL, logger, 4)
   // Each test app is a server process of its own, with its own database listener.
@@ -21,7 +24,15 @@ export function makeTestApp(overrides: Record<string, string> = {}) {
   // …and its own job queue and e-mail worker, started in the background so this stays synchronous.
   const jobs = createQueue(env.DATABASE_URL, logger, { max: 3 })
   const outbox = createEmailOutbox({ db, jobs })
-  const emailWorker = createEmailWorker({ db, jobs, mailer: createMailer(env), logger, attachments: { 'estimate-pdf': async (a) => (await renderVersionPdf(db, a.workshopId, a.versionId)).bytes }, pollingIntervalSeconds: 0.5, concurrency: 1 })
+  const emailWorker = createEmailWorker({
+    db,
+    jobs,
+    mailer: createMailer(env),
+    logger,
+    attachments: { 'estimate-pdf': async (a) => (await renderVersionPdf(db, a.workshopId, a.versionId)).bytes },
+    pollingIntervalSeconds: 0.5,
+    concurrency: 1,
+  })
   emailWorker.start()
   const app = createApp({ env, db, pool, logger, version: 'test', liveHub, outbox })
   const close = async () => {

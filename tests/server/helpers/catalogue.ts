@@ -40,9 +40,20 @@ export async function addCatalogueRecords(db: Database, own: Fixture) {
   const [step] = await db.insert(accessSteps).values({ workshopId, code: 'FX-STEP', name: 'Fixture step', hours: '0.5' }).returning()
   const [operation] = await db
     .insert(labourOperations)
-    .values({ workshopId, code: 'FX-OP', name: 'Fixture operation', system: 'steering', side: 'none', bookHours: '1', category: 'standard' })
+    .values({
+      workshopId,
+      code: 'FX-OP',
+      name: 'Fixture operation',
+      system: 'steering',
+      side: 'none',
+      bookHours: '1',
+      category: 'standard',
+    })
     .returning()
-  const [part] = await db.insert(parts).values({ workshopId, partNumber: 'FX-PART', description: 'Fixture part', costMinor: 100, taxRate: '20' }).returning()
+  const [part] = await db
+    .insert(parts)
+    .values({ workshopId, partNumber: 'FX-PART', description: 'Fixture part', costMinor: 100, taxRate: '20' })
+    .returning()
   if (!step || !operation || !part) throw new Error('catalogue fixture insert returned nothing')
   // The step is in use, so deleting it is refused and it stays for every caller of a test.
   await db.insert(labourOperationAccessSteps).values({ workshopId, operationId: operation.id, accessStepId: step.id, position: 0 })

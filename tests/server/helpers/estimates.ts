@@ -3,7 +3,7 @@ import type { Database } from '../../../server/db/client'
 import { estimateConfirmations, estimates, estimateVersions } from '../../../server/db/schema'
 import { buildSnapshot, snapshotHash } from '../../../server/modules/estimates/estimate-snapshot'
 import { calculateEstimate } from '../../../shared/estimate'
-import type { EstimateResult } from '../../../shared/schemas/estimate'
+import type { EstimateResult } from '../../../shared/estimate/contract'
 import {
   type EstimateDraft,
   type EstimateDraftInput,
@@ -35,7 +35,15 @@ export function tinyDraft(overrides: Partial<EstimateDraftInput> = {}): Estimate
         severity: 'soon',
         customerNote: 'The joint clicks on full lock and its boot is split.',
         lines: [
-          { kind: 'labour', id: 'line-1', description: 'Strip hub and replace CV joint', hours: '2.5', rate: 7200, taxRate: '20', accessSteps: [] },
+          {
+            kind: 'labour',
+            id: 'line-1',
+            description: 'Strip hub and replace CV joint',
+            hours: '2.5',
+            rate: 7200,
+            taxRate: '20',
+            accessSteps: [],
+          },
           { kind: 'part', id: 'line-2', description: 'CV joint kit', quantity: '1', unitPrice: 8950, taxRate: '20' },
         ],
       },
@@ -56,7 +64,11 @@ export interface SentEstimate {
 }
 
 /** An estimate with its draft sent as version 1 (or `version`), as the send step would leave it. */
-export async function makeSentEstimate(db: Database, fx: Fixture, opts: { draft?: EstimateDraft; version?: number } = {}): Promise<SentEstimate> {
+export async function makeSentEstimate(
+  db: Database,
+  fx: Fixture,
+  opts: { draft?: EstimateDraft; version?: number } = {},
+): Promise<SentEstimate> {
   const draft = opts.draft ?? tinyDraft()
   const versionNumber = opts.version ?? 1
   const counter = await db.execute<{ last_number: number }>(sql`

@@ -10,7 +10,10 @@ const tag = () => randomUUID().slice(0, 8)
 /** A workshop of its own for one test: owner, advisor, technician, a customer with a vehicle and a job. */
 export async function makeWorkshop(db: Database, name = 'Fixture Works') {
   const t = tag()
-  const [shop] = await db.insert(workshops).values({ name: `${name} ${t}` }).returning()
+  const [shop] = await db
+    .insert(workshops)
+    .values({ name: `${name} ${t}` })
+    .returning()
   if (!shop) throw new Error('no workshop')
   const staff = await db
     .insert(staffUsers)
@@ -20,11 +23,20 @@ export async function makeWorkshop(db: Database, name = 'Fixture Works') {
       { workshopId: shop.id, name: 'Tess Technician', email: `tech-${t}@fixture.test`, role: 'technician' as const },
     ])
     .returning()
-  const [customer] = await db.insert(customers).values({ workshopId: shop.id, name: 'Carys Customer', email: `customer-${t}@fixture.test` }).returning()
+  const [customer] = await db
+    .insert(customers)
+    .values({ workshopId: shop.id, name: 'Carys Customer', email: `customer-${t}@fixture.test` })
+    .returning()
   if (!customer) throw new Error('no customer')
-  const [vehicle] = await db.insert(vehicles).values({ workshopId: shop.id, customerId: customer.id, registration: `FX${t.slice(0, 4)}`, make: 'Testmake', model: 'Trail' }).returning()
+  const [vehicle] = await db
+    .insert(vehicles)
+    .values({ workshopId: shop.id, customerId: customer.id, registration: `FX${t.slice(0, 4)}`, make: 'Testmake', model: 'Trail' })
+    .returning()
   if (!vehicle) throw new Error('no vehicle')
-  const [job] = await db.insert(jobs).values({ workshopId: shop.id, vehicleId: vehicle.id, concern: 'Knock on take-up of drive' }).returning()
+  const [job] = await db
+    .insert(jobs)
+    .values({ workshopId: shop.id, vehicleId: vehicle.id, concern: 'Knock on take-up of drive' })
+    .returning()
   if (!job) throw new Error('no job')
   const byRole = (role: string) => {
     const s = staff.find((x) => x.role === role)

@@ -118,7 +118,8 @@ export async function openLiveStream(baseUrl: string, cookie: string, openTimeou
       return resyncs
     },
     waitFor: (pred, timeoutMs = 5_000) => until(() => events.find(pred), timeoutMs, 'live event'),
-    waitForResync: (count = 1, timeoutMs = 10_000) => until(() => (resyncs >= count ? true : undefined), timeoutMs, 'resync').then(() => undefined),
+    waitForResync: (count = 1, timeoutMs = 10_000) =>
+      until(() => (resyncs >= count ? true : undefined), timeoutMs, 'resync').then(() => undefined),
     close: () => source.close(),
   }
 }

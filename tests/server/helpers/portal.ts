@@ -26,7 +26,17 @@ export function portalDraft(overrides: Partial<EstimateDraft> = {}): EstimateDra
         customerNote: 'Oil is weeping past the seal onto the brake disc.',
         requires: [],
         lines: [
-          { kind: 'labour', id: 'l1', description: 'Replace swivel seal', hours: '3', rate: 7200, taxRate: '20', accessSteps: [], operationCode: null, category: null },
+          {
+            kind: 'labour',
+            id: 'l1',
+            description: 'Replace swivel seal',
+            hours: '3',
+            rate: 7200,
+            taxRate: '20',
+            accessSteps: [],
+            operationCode: null,
+            category: null,
+          },
           { kind: 'part', id: 'p1', description: 'Swivel seal kit', quantity: '1', unitPrice: 6480, taxRate: '20', partNumber: null },
         ],
       },
@@ -38,7 +48,17 @@ export function portalDraft(overrides: Partial<EstimateDraft> = {}): EstimateDra
         customerNote: 'The joint knocks when drive is taken up.',
         requires: [],
         lines: [
-          { kind: 'labour', id: 'l2', description: 'Replace UJ', hours: '1.2', rate: 7200, taxRate: '20', accessSteps: [], operationCode: null, category: null },
+          {
+            kind: 'labour',
+            id: 'l2',
+            description: 'Replace UJ',
+            hours: '1.2',
+            rate: 7200,
+            taxRate: '20',
+            accessSteps: [],
+            operationCode: null,
+            category: null,
+          },
           { kind: 'part', id: 'p2', description: 'Universal joint', quantity: '1', unitPrice: 2895, taxRate: '20', partNumber: null },
         ],
       },
@@ -49,7 +69,19 @@ export function portalDraft(overrides: Partial<EstimateDraft> = {}): EstimateDra
         severity: 'watch',
         customerNote: '',
         requires: ['seals'],
-        lines: [{ kind: 'labour', id: 'l3', description: 'Set swivel bearing preload', hours: '0.8', rate: 7200, taxRate: '20', accessSteps: [], operationCode: null, category: null }],
+        lines: [
+          {
+            kind: 'labour',
+            id: 'l3',
+            description: 'Set swivel bearing preload',
+            hours: '0.8',
+            rate: 7200,
+            taxRate: '20',
+            accessSteps: [],
+            operationCode: null,
+            category: null,
+          },
+        ],
       },
     ],
     deposit: { kind: 'percent', value: '20' },
@@ -84,7 +116,11 @@ export async function sendWithLink(
   fx: Fixture,
   opts: { draft?: EstimateDraft; photoIds?: Record<string, string[]>; linkExpiresAt?: Date } = {},
 ): Promise<LinkedEstimate> {
-  const sent = await makeSentEstimate(db, { ...fx, workshop: { ...fx.workshop, email: WORKSHOP_EMAIL } }, { draft: opts.draft ?? portalDraft() })
+  const sent = await makeSentEstimate(
+    db,
+    { ...fx, workshop: { ...fx.workshop, email: WORKSHOP_EMAIL } },
+    { draft: opts.draft ?? portalDraft() },
+  )
   let { snapshot, version } = sent
   if (opts.photoIds) {
     const ids = opts.photoIds
@@ -101,7 +137,11 @@ export async function sendWithLink(
 }
 
 /** What sending again does: a new version, the old one superseded, its links revoked, a new link. */
-export async function sendNextVersion(db: Database, sent: LinkedEstimate, change: (s: EstimateSnapshot) => EstimateSnapshot = (s) => s): Promise<LinkedEstimate> {
+export async function sendNextVersion(
+  db: Database,
+  sent: LinkedEstimate,
+  change: (s: EstimateSnapshot) => EstimateSnapshot = (s) => s,
+): Promise<LinkedEstimate> {
   const snapshot = change({ ...sent.snapshot, version: sent.version.version + 1 })
   const [version] = await db
     .insert(estimateVersions)
@@ -116,20 +156,43 @@ export async function sendNextVersion(db: Database, sent: LinkedEstimate, change
     })
     .returning()
   if (!version) throw new Error('no version')
-  await db.update(estimateVersions).set({ supersededAt: sql`now()` }).where(eq(estimateVersions.id, sent.version.id))
+  await db
+    .update(estimateVersions)
+    .set({ supersededAt: sql`now()` })
+    .where(eq(estimateVersions.id, sent.version.id))
   await revokeEstimateLinks(db, sent.version.workshopId, sent.estimate.id, version.id)
-  const token = await issueEstimateLink(db, { workshopId: version.workshopId, versionId: version.id, customerId: snapshot.customer.id, expiresAt: new Date(Date.now() + 14 * 86_400_000) })
+  const token = await issueEstimateLink(db, {
+    workshopId: version.workshopId,
+    versionId: version.id,
+    customerId: snapshot.customer.id,
+    expiresAt: new Date(Date.now() + 14 * 86_400_000),
+  })
   return { ...sent, snapshot, version, token }
 }
 
 /** Another customer of the fixture's workshop, with a vehicle and a job of their own. */
 export async function addCustomer(db: Database, fx: Fixture, name: string): Promise<Fixture> {
   const tag = Math.random().toString(36).slice(2, 8)
-  const [customer] = await db.insert(customers).values({ workshopId: fx.workshop.id, name, email: `${tag}-${name.split(' ')[0]?.toLowerCase()}@fixture.test` }).returning()
+  const [customer] = await db
+    .insert(customers)
+    .values({ workshopId: fx.workshop.id, name, email: `${tag}-${name.split(' ')[0]?.toLowerCase()}@fixture.test` })
+    .returning()
   if (!customer) throw new Error('no customer')
-  const [vehicle] = await db.insert(vehicles).values({ workshopId: fx.workshop.id, customerId: customer.id, registration: `PX${tag.slice(0, 4).toUpperCase()}`, make: 'Testmake', model: 'Ranger' }).returning()
+  const [vehicle] = await db
+    .insert(vehicles)
+    .values({
+      workshopId: fx.workshop.id,
+      customerId: customer.id,
+      registration: `PX${tag.slice(0, 4).toUpperCase()}`,
+      make: 'Testmake',
+      model: 'Ranger',
+    })
+    .returning()
   if (!vehicle) throw new Error('no vehicle')
-  const [job] = await db.insert(jobs).values({ workshopId: fx.workshop.id, vehicleId: vehicle.id, concern: 'Vibration at speed' }).returning()
+  const [job] = await db
+    .insert(jobs)
+    .values({ workshopId: fx.workshop.id, vehicleId: vehicle.id, concern: 'Vibration at speed' })
+    .returning()
   if (!job) throw new Error('no job')
   return { ...fx, customer, vehicle, job }
 }
@@ -138,14 +201,31 @@ export async function addCustomer(db: Database, fx: Fixture, name: string): Prom
 export async function addPhoto(db: Database, storage: FileStorage, fx: Fixture): Promise<{ id: string; data: Buffer }> {
   const [finding] = await db
     .insert(findings)
-    .values({ workshopId: fx.workshop.id, jobId: fx.job.id, title: 'Swivel seal weeping', severity: 'soon', explanation: { what: 'Seal weeping', why: 'Oil on the disc', ifLeft: 'Brake contamination' } })
+    .values({
+      workshopId: fx.workshop.id,
+      jobId: fx.job.id,
+      title: 'Swivel seal weeping',
+      severity: 'soon',
+      explanation: { what: 'Seal weeping', why: 'Oil on the disc', ifLeft: 'Brake contamination' },
+    })
     .returning()
   if (!finding) throw new Error('no finding')
-  const data = await sharp({ create: { width: 64, height: 48, channels: 3, background: '#5a6b3c' } }).jpeg({ quality: 60 }).toBuffer()
+  const data = await sharp({ create: { width: 64, height: 48, channels: 3, background: '#5a6b3c' } })
+    .jpeg({ quality: 60 })
+    .toBuffer()
   const thumb = await sharp(data).resize(32).jpeg({ quality: 60 }).toBuffer()
   const [photo] = await db
     .insert(photos)
-    .values({ workshopId: fx.workshop.id, findingId: finding.id, storageKey: await storage.put(data, 'jpg'), thumbKey: await storage.put(thumb, 'jpg'), contentType: 'image/jpeg', width: 64, height: 48, bytes: data.length })
+    .values({
+      workshopId: fx.workshop.id,
+      findingId: finding.id,
+      storageKey: await storage.put(data, 'jpg'),
+      thumbKey: await storage.put(thumb, 'jpg'),
+      contentType: 'image/jpeg',
+      width: 64,
+      height: 48,
+      bytes: data.length,
+    })
     .returning()
   if (!photo) throw new Error('no photo')
   return { id: photo.id, data }

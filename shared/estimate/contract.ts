@@ -1,6 +1,6 @@
 import { z } from 'zod'
-import { decimalPattern, HOURS_PLACES, PERCENT_PLACES, QUANTITY_PLACES } from '../estimate/decimal'
-import { estimateInputIssues } from '../estimate/prepare'
+import { decimalPattern, HOURS_PLACES, PERCENT_PLACES, QUANTITY_PLACES } from './decimal'
+import { estimateInputIssues } from './prepare'
 import { isSupportedCurrency } from '../money'
 
 /**
@@ -9,7 +9,9 @@ import { isSupportedCurrency } from '../money'
  * doubled the cost of validating a large estimate.
  */
 function decimalString(places: number, what: string) {
-  return z.string().regex(decimalPattern(places), { message: `${what} must be a decimal string such as "1.5", with at most ${places} decimal places` })
+  return z
+    .string()
+    .regex(decimalPattern(places), { message: `${what} must be a decimal string such as "1.5", with at most ${places} decimal places` })
 }
 
 const Hours = decimalString(HOURS_PLACES, 'Hours')
