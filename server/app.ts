@@ -9,7 +9,7 @@ import type { Logger } from 'pino'
 import { Passport } from 'passport'
 import type { Database } from './db/client'
 import type { Env } from './env'
-import { recordAudit } from './lib/audit'
+import { auditContextOf, recordAudit } from './lib/audit'
 import { type Mailer, createMailer } from './lib/mailer'
 import type { EmailOutbox } from './modules/email/outbox'
 import { createAuthLimits, createRenewLimits } from './lib/rate-limits'
@@ -169,7 +169,11 @@ export function createApp(deps: AppDeps): express.Express {
   api.use(express.json({ limit: '1mb' }))
   api.use(createSessionMiddleware(env, pool))
   api.use(passport.session())
-  api.use(absoluteLifetime(env, (req) => recordAudit(db, req, { action: 'session.expired', workshopId: req.user?.workshop.id ?? null })))
+  api.use(
+    absoluteLifetime(env, (req) =>
+      recordAudit(db, auditContextOf(req), { action: 'session.expired', workshopId: req.user?.workshop.id ?? null }),
+    ),
+  )
   api.use(csrfProtection(env.ALLOWED_ORIGINS))
 
   const pricingRepo = createPricingRepo(db)

@@ -12,3 +12,8 @@ export function createDatabase(url: string, logger: Logger, max = 10) {
   const db = drizzle(pool, { schema, casing: 'snake_case' })
   return { pool, db }
 }
+
+/** A transaction handle, as `db.transaction(async (tx) => …)` passes it. */
+export type Tx = Parameters<Parameters<Database['transaction']>[0]>[0]
+/** Anything that runs queries: the database itself or a transaction. */
+export type Queryable = Database | Tx

@@ -3,12 +3,9 @@
  * rate, markup, stock figure and clock time in this file is invented for the demo: none is taken
  * from any published labour-time guide or price list, and none may be used as a truth in tests.
  */
-import type { drizzle } from 'drizzle-orm/node-postgres'
 import * as schema from './schema'
+import type { Tx } from './client'
 import type { LabourCategory, LabourSide, LabourSystem } from '../../shared/schemas/catalogue'
-
-type Db = ReturnType<typeof drizzle<typeof schema>>
-type Tx = Parameters<Parameters<Db['transaction']>[0]>[0]
 
 const COIL = 'coil-sprung-live-axle'
 const LEAF = 'leaf-sprung-pickup'

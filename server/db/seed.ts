@@ -7,10 +7,11 @@ import { count } from 'drizzle-orm'
 import { drizzle } from 'drizzle-orm/node-postgres'
 import pg from 'pg'
 import * as schema from './schema'
+import type { Database } from './client'
 import { seedCatalogue } from './seed-catalogue'
 import { starterTemplate } from '../../shared/inspection/starter-template'
 
-type Db = ReturnType<typeof drizzle<typeof schema>>
+type Db = Database
 
 export const demo = {
   workshop: {

@@ -57,7 +57,3 @@ export function sendInBackground(mailer: Mailer, logger: Logger, message: MailMe
     logger.error({ err, what, subject: message.subject }, 'e-mail could not be sent')
   })
 }
-
-export function escapeHtml(text: string): string {
-  return text.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c] ?? c)
-}

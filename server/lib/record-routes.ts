@@ -1,9 +1,8 @@
-import type { Request } from 'express'
 import type { z } from 'zod'
 import type { Permission } from '../../shared/auth/policy'
 import { IdParamsSchema } from '../../shared/schemas/common'
 import { staffOf } from '../middleware/auth'
-import { validate } from '../middleware/validate'
+import { handle } from '../middleware/validate'
 import { type RouteTable, staffWith } from './route-table'
 
 export interface RecordService<Input, Query, Item> {
@@ -29,35 +28,63 @@ export function recordRoutes<Input, Query, Item>(
 ) {
   const { service } = opts
   const g = table.group(base)
-  const ws = (req: Request) => staffOf(req).workshop.id
-  const id = (req: Request) => (req.params as { id: string }).id
+  const ws = (req: { user?: Express.User }) => staffOf(req).workshop.id
   const read = staffWith(opts.read)
   const write = staffWith(opts.write)
+  const byId = { params: IdParamsSchema }
 
-  g.get('', read, validate({ query: opts.listQuery }), async (req, res) => {
-    res.json(await service.list(ws(req), req.query as unknown as Query))
-  })
-  g.get('/:id', read, validate({ params: IdParamsSchema }), async (req, res) => {
-    res.json(await service.get(ws(req), id(req)))
-  })
-  g.post('', write, validate({ body: opts.input }), async (req, res) => {
-    res.status(201).json(await service.create(ws(req), req.body as Input))
-  })
-  g.put('/:id', write, validate({ params: IdParamsSchema, body: opts.input }), async (req, res) => {
-    res.json(await service.update(ws(req), id(req), req.body as Input))
-  })
+  g.get(
+    '',
+    read,
+    handle({ query: opts.listQuery }, async (req, res) => {
+      res.json(await service.list(ws(req), req.query))
+    }),
+  )
+  g.get(
+    '/:id',
+    read,
+    handle(byId, async (req, res) => {
+      res.json(await service.get(ws(req), req.params.id))
+    }),
+  )
+  g.post(
+    '',
+    write,
+    handle({ body: opts.input }, async (req, res) => {
+      res.status(201).json(await service.create(ws(req), req.body))
+    }),
+  )
+  g.put(
+    '/:id',
+    write,
+    handle({ ...byId, body: opts.input }, async (req, res) => {
+      res.json(await service.update(ws(req), req.params.id, req.body))
+    }),
+  )
   const setArchived = service.setArchived?.bind(service)
   if (setArchived) {
-    g.post('/:id/archive', write, validate({ params: IdParamsSchema }), async (req, res) => {
-      res.json(await setArchived(ws(req), id(req), true))
-    })
-    g.post('/:id/restore', write, validate({ params: IdParamsSchema }), async (req, res) => {
-      res.json(await setArchived(ws(req), id(req), false))
-    })
+    g.post(
+      '/:id/archive',
+      write,
+      handle(byId, async (req, res) => {
+        res.json(await setArchived(ws(req), req.params.id, true))
+      }),
+    )
+    g.post(
+      '/:id/restore',
+      write,
+      handle(byId, async (req, res) => {
+        res.json(await setArchived(ws(req), req.params.id, false))
+      }),
+    )
   }
-  g.delete('/:id', write, validate({ params: IdParamsSchema }), async (req, res) => {
-    await service.remove(ws(req), id(req))
-    res.status(204).end()
-  })
+  g.delete(
+    '/:id',
+    write,
+    handle(byId, async (req, res) => {
+      await service.remove(ws(req), req.params.id)
+      res.status(204).end()
+    }),
+  )
   return g
 }

@@ -31,9 +31,9 @@ export class RouteTable {
     const router = Router()
     const add =
       (method: Method) =>
-      (path: string, access: Access, ...handlers: RequestHandler[]) => {
+      (path: string, access: Access, ...handlers: (RequestHandler | RequestHandler[])[]) => {
         this.rules.push({ method, path: base + path, localPath: path, access })
-        router[method](path, guard(access), ...handlers)
+        router[method](path, guard(access), ...handlers.flat())
       }
     return { base, router, get: add('get'), post: add('post'), put: add('put'), patch: add('patch'), delete: add('delete') }
   }

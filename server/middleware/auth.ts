@@ -21,13 +21,13 @@ export function guard(access: Access): RequestHandler {
 }
 
 /** The signed-in staff member; only call behind a staff guard. */
-export function staffOf(req: Parameters<RequestHandler>[0]): StaffPrincipal {
+export function staffOf(req: { user?: Express.User }): StaffPrincipal {
   const user = req.user
   if (!user || user.kind !== 'staff' || !user.role) throw new UnauthorizedError()
   return user as StaffPrincipal
 }
 
-export function customerOf(req: Parameters<RequestHandler>[0]): CustomerPrincipal {
+export function customerOf(req: { user?: Express.User }): CustomerPrincipal {
   const user = req.user
   if (!user || user.kind !== 'customer') throw new UnauthorizedError()
   return user as CustomerPrincipal

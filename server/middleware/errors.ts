@@ -20,7 +20,14 @@ export const errorHandler: ErrorRequestHandler = (err: unknown, req, res, _next)
     return
   }
   if (err instanceof AppError) {
-    res.status(err.status).json({ error: { code: err.code, message: err.message, ...(err.issues ? { issues: err.issues } : {}) } })
+    res.status(err.status).json({
+      error: {
+        code: err.code,
+        message: err.message,
+        ...(err.issues ? { issues: err.issues } : {}),
+        ...(err.details ? { details: err.details } : {}),
+      },
+    })
     return
   }
   if (err instanceof Error && err.name === 'MulterError') {

@@ -232,6 +232,38 @@ export const estimateStatuses = ['draft', 'sent', 'opened', 'confirmed', 'deposi
 export const EstimateStatusSchema = z.enum(estimateStatuses)
 export type EstimateStatus = z.infer<typeof EstimateStatusSchema>
 
+/** What an estimate's status is decided from: the estimate, its latest version, that version's confirmation and deposit. */
+export interface EstimateStatusFacts {
+  withdrawn: boolean
+  /** Whether any version has been sent. */
+  sent: boolean
+  depositStatus: 'awaiting_payment' | 'paid' | 'refunded' | null
+  confirmed: boolean
+  /** The version's decision day has ended in the workshop's time zone. */
+  expired: boolean
+  opened: boolean
+}
+
+/**
+ * An estimate's status. The one rule in TypeScript; its SQL twin (server/modules/estimates/estimate-status.sql.ts)
+ * lets lists filter and sort on it, and a test checks that the two agree on every combination of facts.
+ */
+export function estimateStatusOf(f: EstimateStatusFacts): EstimateStatus {
+  if (f.withdrawn) return 'withdrawn'
+  if (!f.sent) return 'draft'
+  return sentEstimateStatusOf(f)
+}
+
+/** The status of an estimate the customer has been sent (the portal never sees a draft). */
+export function sentEstimateStatusOf(f: Omit<EstimateStatusFacts, 'sent'>): Exclude<EstimateStatus, 'draft'> {
+  if (f.withdrawn) return 'withdrawn'
+  if (f.depositStatus === 'paid' || f.depositStatus === 'refunded') return 'deposit_paid'
+  if (f.confirmed) return 'confirmed'
+  if (f.expired) return 'expired'
+  if (f.opened) return 'opened'
+  return 'sent'
+}
+
 export const estimateStatusLabels: Record<EstimateStatus, string> = {
   draft: 'Draft — not sent',
   sent: 'Sent',

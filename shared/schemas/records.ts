@@ -139,6 +139,27 @@ export const jobStatusLabels: Record<JobStatus, string> = {
   cancelled: 'Cancelled',
 }
 
+/**
+ * The moves a job's status may make, by hand on the job page or by what happens to it (an inspection
+ * starts, an estimate is sent, a deposit is paid). Forward by any number of steps; back only where
+ * the work really goes back (an estimate withdrawn, extra work found, a finished job reopened, a
+ * cancelled one reinstated). Staying put is always allowed. This table is the one definition: the
+ * server refuses every other move, and the job form offers only these.
+ */
+export const jobTransitions: Record<JobStatus, readonly JobStatus[]> = {
+  booked_in: ['inspecting', 'quoting', 'waiting_for_customer', 'in_work', 'finished', 'cancelled'],
+  inspecting: ['booked_in', 'quoting', 'waiting_for_customer', 'in_work', 'finished', 'cancelled'],
+  quoting: ['inspecting', 'waiting_for_customer', 'in_work', 'finished', 'cancelled'],
+  waiting_for_customer: ['quoting', 'in_work', 'finished', 'cancelled'],
+  in_work: ['waiting_for_customer', 'finished', 'cancelled'],
+  finished: ['in_work'],
+  cancelled: ['booked_in'],
+}
+
+export function canMoveJob(from: JobStatus, to: JobStatus): boolean {
+  return from === to || jobTransitions[from].includes(to)
+}
+
 const isoDate = z
   .union([z.literal(''), z.iso.date({ error: 'Use a date like 2026-12-02' })])
   .transform((v) => (v === '' ? null : v))

@@ -1,4 +1,5 @@
-import { escapeHtml, type MailMessage } from '../../lib/mailer'
+import { escapeHtml } from '../../lib/email-layout'
+import type { MailMessage } from '../../lib/mailer'
 
 export function signInEmail(opts: {
   to: string

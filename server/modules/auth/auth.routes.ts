@@ -4,7 +4,7 @@ import type passportModule from 'passport'
 import { Strategy as MagicLinkStrategy } from 'passport-magic-link'
 import { SignInRequestSchema, SignInVerifySchema, type Principal } from '../../../shared/schemas/auth'
 import type { Env } from '../../env'
-import { recordAudit } from '../../lib/audit'
+import { auditContextOf, recordAudit } from '../../lib/audit'
 import { AppError } from '../../lib/errors'
 import { type RouteTable, anyone, signedIn } from '../../lib/route-table'
 import { validate } from '../../middleware/validate'
@@ -129,7 +129,7 @@ export function authRoutes(
 
   g.post('/sign-out', signedIn, async (req, res, next) => {
     const user = req.user
-    await recordAudit(db, req, { action: 'sign_out', workshopId: user?.workshop.id ?? null })
+    await recordAudit(db, auditContextOf(req), { action: 'sign_out', workshopId: user?.workshop.id ?? null })
     req.logout((err) => {
       if (err) return next(err)
       req.session.destroy((destroyErr) => {

@@ -3,7 +3,7 @@ import type { Request } from 'express'
 import type { Logger } from 'pino'
 import type { Database } from '../../db/client'
 import type { Env } from '../../env'
-import { recordAudit } from '../../lib/audit'
+import { auditContextOf, recordAudit } from '../../lib/audit'
 import { type Mailer, sendInBackground } from '../../lib/mailer'
 import type { Principal } from '../../../shared/schemas/auth'
 import type { AuthRepo } from './auth.repo'
@@ -46,7 +46,7 @@ export function createAuthService(deps: { repo: AuthRepo; db: Database; mailer: 
           workshopId: staff.workshopId,
           expiresAt,
         })
-        await recordAudit(db, req, {
+        await recordAudit(db, auditContextOf(req), {
           action: 'sign_in.requested',
           workshopId: staff.workshopId,
           actor: { kind: 'anonymous' },
@@ -82,7 +82,7 @@ export function createAuthService(deps: { repo: AuthRepo; db: Database; mailer: 
         workshopId: customer.workshopId,
         expiresAt,
       })
-      await recordAudit(db, req, {
+      await recordAudit(db, auditContextOf(req), {
         action: 'sign_in.requested',
         workshopId: customer.workshopId,
         actor: { kind: 'anonymous' },
@@ -110,7 +110,7 @@ export function createAuthService(deps: { repo: AuthRepo; db: Database; mailer: 
       if (!row) {
         const known = await repo.findToken(tokenHash)
         const reason = !known ? 'unknown' : known.usedAt ? 'already_used' : 'expired'
-        await recordAudit(db, req, {
+        await recordAudit(db, auditContextOf(req), {
           action: 'sign_in.failed',
           workshopId: known?.workshopId ?? null,
           actor: { kind: 'anonymous' },
@@ -119,7 +119,7 @@ export function createAuthService(deps: { repo: AuthRepo; db: Database; mailer: 
         return null
       }
       if (row.principalKind !== audience) {
-        await recordAudit(db, req, {
+        await recordAudit(db, auditContextOf(req), {
           action: 'sign_in.failed',
           workshopId: row.workshopId,
           actor: { kind: 'anonymous' },
@@ -130,7 +130,7 @@ export function createAuthService(deps: { repo: AuthRepo; db: Database; mailer: 
       const id = row.principalKind === 'staff' ? row.staffUserId : row.customerId
       const principal = id ? await repo.loadPrincipal(row.principalKind, id) : undefined
       if (!principal) {
-        await recordAudit(db, req, {
+        await recordAudit(db, auditContextOf(req), {
           action: 'sign_in.failed',
           workshopId: row.workshopId,
           actor: { kind: 'anonymous' },
@@ -143,7 +143,7 @@ export function createAuthService(deps: { repo: AuthRepo; db: Database; mailer: 
 
     async recordSignIn(req: Request, principal: Principal) {
       if (principal.kind === 'staff') await repo.markSignedIn(principal.id)
-      await recordAudit(db, req, {
+      await recordAudit(db, auditContextOf(req), {
         action: 'sign_in.succeeded',
         workshopId: principal.workshop.id,
         actor: { kind: principal.kind, id: principal.id, name: principal.name },
@@ -151,7 +151,7 @@ export function createAuthService(deps: { repo: AuthRepo; db: Database; mailer: 
     },
 
     async recordTamperedLink(req: Request) {
-      await recordAudit(db, req, {
+      await recordAudit(db, auditContextOf(req), {
         action: 'sign_in.failed',
         workshopId: null,
         actor: { kind: 'anonymous' },

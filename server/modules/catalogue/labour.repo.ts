@@ -1,6 +1,6 @@
 import { type SQL, and, asc, count, eq, getTableColumns, inArray, isNotNull, isNull, or, sql } from 'drizzle-orm'
 import { alias } from 'drizzle-orm/pg-core'
-import type { Database } from '../../db/client'
+import type { Database, Queryable } from '../../db/client'
 import { accessStepIncludes, accessSteps, jobs, labourClockTimes, labourOperationAccessSteps, labourOperations } from '../../db/schema'
 import type { LabourSearchQuery, TimeComparisonQuery } from '../../../shared/schemas/catalogue'
 import { type Listed, rankedSearch } from './catalogue.search'
@@ -9,8 +9,7 @@ export type OperationRow = typeof labourOperations.$inferSelect
 /** An operation as lists and forms need it: without the search columns. */
 export type OperationRecord = Listed<typeof labourOperations>
 export type StepRow = typeof accessSteps.$inferSelect
-/** Any Drizzle handle that can run queries: the database or a transaction. */
-export type Queryable = Pick<Database, 'select' | 'selectDistinct' | 'insert' | 'update' | 'delete' | 'execute'>
+export type { Queryable }
 
 export interface StepWithIncludes {
   row: StepRow

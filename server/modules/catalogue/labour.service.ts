@@ -1,7 +1,7 @@
 import type { Request } from 'express'
 import { and, eq, sql } from 'drizzle-orm'
 import { accessSteps, labourOperations } from '../../db/schema'
-import { recordAudit } from '../../lib/audit'
+import { auditContextOf, recordAudit } from '../../lib/audit'
 import { deleteOrRefuse } from '../../lib/db-errors'
 import { type ErrorIssue, NotFoundError, ValidationError } from '../../lib/errors'
 import { accessHours, findLoop } from '../../../shared/catalogue/access-graph'
@@ -325,7 +325,7 @@ export function createLabourService(deps: { repo: LabourRepo; pricing: PricingRe
   }
 
   async function audit(req: Request, me: StaffPrincipal, table: string, report: ImportReport) {
-    await recordAudit(db, req, {
+    await recordAudit(db, auditContextOf(req), {
       action: 'settings.changed',
       workshopId: me.workshop.id,
       subject: { type: table, id: me.workshop.id },

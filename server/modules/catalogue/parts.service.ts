@@ -1,5 +1,5 @@
 import type { Request } from 'express'
-import { recordAudit } from '../../lib/audit'
+import { auditContextOf, recordAudit } from '../../lib/audit'
 import { NotFoundError } from '../../lib/errors'
 import { normalizeDecimal } from '../../../shared/catalogue/decimal'
 import { sellPrice } from '../../../shared/catalogue/pricing'
@@ -112,7 +112,7 @@ export function createPartsService(deps: { repo: PartsRepo; pricing: PricingRepo
         for (const chunk of chunks(writes, 2000)) await repo.upsert(tx, workshopId, chunk)
         return reportOf(p, table, true)
       })
-      await recordAudit(db, req, {
+      await recordAudit(db, auditContextOf(req), {
         action: 'settings.changed',
         workshopId,
         subject: { type: 'parts', id: workshopId },

@@ -1,6 +1,6 @@
 import type { Request } from 'express'
 import type { Database } from '../../db/client'
-import { recordAudit } from '../../lib/audit'
+import { auditContextOf, recordAudit } from '../../lib/audit'
 import type { StaffPrincipal } from '../../../shared/schemas/auth'
 import type { Pricing, PricingInput } from '../../../shared/schemas/catalogue'
 import type { PricingRepo } from './pricing.repo'
@@ -30,7 +30,7 @@ export function createPricingService(deps: { repo: PricingRepo; db: Database }) 
       const now = auditView(after)
       const changed = Object.keys(now).filter((k) => was[k] !== now[k])
       if (changed.length > 0) {
-        await recordAudit(db, req, {
+        await recordAudit(db, auditContextOf(req), {
           action: 'settings.changed',
           workshopId: me.workshop.id,
           subject: { type: 'pricing', id: me.workshop.id },

@@ -1,5 +1,5 @@
 import { type SQL, and, asc, desc, eq, inArray, like, or, sql } from 'drizzle-orm'
-import type { Database } from '../../db/client'
+import type { Database, Queryable, Tx } from '../../db/client'
 import {
   customers,
   depositPayments,
@@ -15,33 +15,17 @@ import {
   vehicles,
   workshops,
 } from '../../db/schema'
+import { setJobStatus } from '../jobs/jobs.repo'
 import type { EstimateListQuery, EstimateStatus } from '../../../shared/schemas/estimates'
+import { estimateStatusJoins, estimateStatusSql } from './estimate-status.sql'
 import { likePattern } from '../../lib/db-errors'
 
-export type Tx = Parameters<Parameters<Database['transaction']>[0]>[0]
-export type Queryable = Database | Tx
-
-/**
- * An estimate's status from its latest version, in one SQL expression so lists can filter and
- * sort on it. Expiry is a date in the workshop's time zone: the last day the customer can decide.
- */
-const statusSql = sql<EstimateStatus>`case
-  when e.withdrawn_at is not null then 'withdrawn'
-  when v.id is null then 'draft'
-  when dp.status in ('paid', 'refunded') then 'deposit_paid'
-  when v.confirmed_at is not null then 'confirmed'
-  when v.expires_on < (now() at time zone w.timezone)::date then 'expired'
-  when v.opened_at is not null then 'opened'
-  else 'sent' end`
-
-/** The latest version (v), its confirmation (ec) and deposit (dp) beside each estimate e, for statusSql. */
-const latestVersionJoins = sql`left join lateral (select * from estimate_versions x where x.estimate_id = e.id order by x.version desc limit 1) v on true
-  left join estimate_confirmations ec on ec.version_id = v.id
-  left join deposit_payments dp on dp.confirmation_id = ec.id`
+export type { Queryable, Tx }
 
 export function createEstimatesRepo(db: Database) {
   return {
     db,
+    setJobStatus,
 
     /** The next number in the workshop's sequence. The counter row stays locked until the caller's transaction ends, so numbers are consecutive and a rolled-back creation leaves no gap. */
     async nextNumber(tx: Tx, workshopId: string): Promise<number> {
@@ -90,7 +74,7 @@ export function createEstimatesRepo(db: Database) {
         total: string
       }>(sql`
         with listed as (
-          select e.id, e.number, ${statusSql} as status, e.job_id, c.name as customer_name, ve.registration, w.currency, e.draft,
+          select e.id, e.number, ${estimateStatusSql} as status, e.job_id, c.name as customer_name, ve.registration, w.currency, e.draft,
             v.proposed_gross, ec.approved_gross, ec.deposit_minor,
             (e.sent_revision is null or e.sent_revision <> e.revision) and e.withdrawn_at is null as has_unsent_changes,
             v.version as latest_version,
@@ -101,7 +85,7 @@ export function createEstimatesRepo(db: Database) {
           join jobs j on j.id = e.job_id
           join vehicles ve on ve.id = j.vehicle_id
           join customers c on c.id = ve.customer_id
-          ${latestVersionJoins}
+          ${estimateStatusJoins}
           where ${sql.join(where, sql` and `)}
         )
         select *, count(*) over () as total from listed ${statusFilter}
@@ -112,10 +96,10 @@ export function createEstimatesRepo(db: Database) {
 
     async status(q: Queryable, workshopId: string, id: string): Promise<EstimateStatus | undefined> {
       const result = await q.execute<{ status: EstimateStatus }>(sql`
-        select ${statusSql} as status
+        select ${estimateStatusSql} as status
         from estimates e
         join workshops w on w.id = e.workshop_id
-        ${latestVersionJoins}
+        ${estimateStatusJoins}
         where e.workshop_id = ${workshopId} and e.id = ${id}`)
       return result.rows[0]?.status
     },

@@ -2,17 +2,17 @@ import { randomUUID } from 'node:crypto'
 import type { Request } from 'express'
 import { and, eq, sql } from 'drizzle-orm'
 import type { Logger } from 'pino'
-import { estimates, estimateVersions, jobs, workshops } from '../../db/schema'
+import { estimates, estimateVersions, workshops } from '../../db/schema'
 import type { Database } from '../../db/client'
 import type { Env } from '../../env'
-import { recordAudit } from '../../lib/audit'
+import { auditContextOf, recordAudit } from '../../lib/audit'
 import { ConflictError, NotFoundError, ValidationError, type ErrorIssue } from '../../lib/errors'
-import { escapeHtml } from '../../lib/mailer'
+import { escapeHtml } from '../../lib/email-layout'
 import { publishLive } from '../../lib/live-publish'
 import type { EmailOutbox } from '../email/outbox'
 import type { LabourService } from '../catalogue/labour.service'
 import type { PricingRepo } from '../catalogue/pricing.repo'
-import { estimateLinkUrl, issueEstimateLink, revokeEstimateLinks } from '../portal/estimate-links'
+import { estimateLinkUrl, issueEstimateLink, linkExpiry, revokeEstimateLinks } from '../portal/estimate-links'
 import { type EstimatesRepo, type Queryable, type Tx } from './estimates.repo'
 import { buildSnapshot, snapshotHash } from './estimate-snapshot'
 import type { StaffPrincipal } from '../../../shared/schemas/auth'
@@ -423,13 +423,8 @@ ${updated ? `<p>${escapeHtml(updated)}</p>` : ''}
           .values({ workshopId, jobId: input.jobId, number, draft, createdBy: me.id })
           .returning()
         if (!estimate) throw new Error('estimate insert returned nothing')
-        if (job.job.status === 'booked_in' || job.job.status === 'inspecting') {
-          await tx
-            .update(jobs)
-            .set({ status: 'quoting' })
-            .where(and(eq(jobs.workshopId, workshopId), eq(jobs.id, job.job.id)))
-        }
-        await recordAudit(tx, req, {
+        await repo.setJobStatus(tx, workshopId, job.job.id, ['booked_in', 'inspecting'], 'quoting')
+        await recordAudit(tx, auditContextOf(req), {
           action: 'estimate.created',
           workshopId,
           subject: { type: 'estimate', id: estimate.id },
@@ -554,19 +549,19 @@ ${updated ? `<p>${escapeHtml(updated)}</p>` : ''}
             .where(and(eq(estimateVersions.workshopId, workshopId), eq(estimateVersions.id, previous.version.id)))
         }
         await revokeEstimateLinks(tx, workshopId, id, saved.id)
-        const expires = await tx.execute<{ at: Date }>(
-          sql`select ((${draft.expiresOn}::date + 1)::timestamp at time zone ${row.workshop.timezone}) as at`,
-        )
-        const expiresAt = new Date(expires.rows[0]?.at ?? Date.now())
+        const expiresAt = await linkExpiry(tx, workshopId, saved.id)
         const token = await issueEstimateLink(tx, { workshopId, versionId: saved.id, customerId: row.customer.id, expiresAt })
         await tx
           .update(estimates)
           .set({ sentRevision: row.estimate.revision })
           .where(and(eq(estimates.workshopId, workshopId), eq(estimates.id, id)))
-        await tx
-          .update(jobs)
-          .set({ status: 'waiting_for_customer' })
-          .where(and(eq(jobs.workshopId, workshopId), eq(jobs.id, row.estimate.jobId)))
+        await repo.setJobStatus(
+          tx,
+          workshopId,
+          row.estimate.jobId,
+          ['booked_in', 'inspecting', 'quoting', 'waiting_for_customer', 'in_work'],
+          'waiting_for_customer',
+        )
         const mail = sentEmail(snapshot, estimateLinkUrl(env.PUBLIC_BASE_URL, token), result.proposed.gross, Boolean(previous))
         await outbox.queue(
           {
@@ -582,7 +577,7 @@ ${updated ? `<p>${escapeHtml(updated)}</p>` : ''}
           },
           tx,
         )
-        await recordAudit(tx, req, {
+        await recordAudit(tx, auditContextOf(req), {
           action: 'estimate.sent',
           workshopId,
           subject: { type: 'estimate', id },
@@ -610,7 +605,7 @@ ${updated ? `<p>${escapeHtml(updated)}</p>` : ''}
           .set({ withdrawnAt: sql`now()` })
           .where(and(eq(estimates.workshopId, workshopId), eq(estimates.id, id)))
         await revokeEstimateLinks(tx, workshopId, id)
-        await recordAudit(tx, req, {
+        await recordAudit(tx, auditContextOf(req), {
           action: 'estimate.withdrawn',
           workshopId,
           subject: { type: 'estimate', id },
@@ -627,7 +622,12 @@ ${updated ? `<p>${escapeHtml(updated)}</p>` : ''}
       const emails = await repo.emails(db, workshopId, row.estimate.id)
       if (!emails.some((m) => m.id === emailId)) throw new NotFoundError('No such e-mail for this estimate.')
       await outbox.resend(workshopId, emailId)
-      await recordAudit(db, req, { action: 'estimate.email_resent', workshopId, subject: { type: 'estimate', id }, details: { emailId } })
+      await recordAudit(db, auditContextOf(req), {
+        action: 'estimate.email_resent',
+        workshopId,
+        subject: { type: 'estimate', id },
+        details: { emailId },
+      })
     },
 
     /** The version's snapshot and figures, for the PDF. */
@@ -647,7 +647,7 @@ ${updated ? `<p>${escapeHtml(updated)}</p>` : ''}
     async saveDefaults(req: Request, me: StaffPrincipal, input: EstimateDefaults): Promise<EstimateDefaults> {
       const before = await this.getDefaults(me.workshop.id)
       await db.update(workshops).set({ estimateDefaults: input }).where(eq(workshops.id, me.workshop.id))
-      await recordAudit(db, req, {
+      await recordAudit(db, auditContextOf(req), {
         action: 'settings.changed',
         workshopId: me.workshop.id,
         subject: { type: 'estimate-defaults', id: me.workshop.id },

@@ -1,13 +1,14 @@
 import { and, asc, desc, eq, inArray, isNull, or } from 'drizzle-orm'
-import type { Database } from '../../db/client'
+import type { Database, Queryable, Tx } from '../../db/client'
 import { checkTemplates, findings, inspectionResults, inspections, jobs, photos, staffUsers, vehicles } from '../../db/schema'
+import { setJobStatus } from '../jobs/jobs.repo'
 
-type Tx = Parameters<Parameters<Database['transaction']>[0]>[0]
-type Db = Database | Tx
+type Db = Queryable
 
 export function createInspectionsRepo(db: Database) {
   return {
     transaction: <T>(fn: (tx: Tx) => Promise<T>) => db.transaction(fn),
+    setJobStatus,
 
     templates(workshopId: string) {
       return db
@@ -59,18 +60,6 @@ export function createInspectionsRepo(db: Database) {
         .innerJoin(vehicles, eq(vehicles.id, jobs.vehicleId))
         .where(and(eq(jobs.workshopId, workshopId), eq(jobs.id, jobId)))
       return row
-    },
-    async setJobStatus(
-      tx: Db,
-      workshopId: string,
-      jobId: string,
-      from: (typeof jobs.$inferSelect.status)[],
-      to: typeof jobs.$inferSelect.status,
-    ) {
-      await tx
-        .update(jobs)
-        .set({ status: to })
-        .where(and(eq(jobs.workshopId, workshopId), eq(jobs.id, jobId), inArray(jobs.status, from)))
     },
 
     async inspection(workshopId: string, id: string) {

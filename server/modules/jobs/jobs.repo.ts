@@ -1,8 +1,30 @@
-import { type SQL, and, asc, count, desc, eq, ilike, or, sql } from 'drizzle-orm'
-import type { Database } from '../../db/client'
+import { type SQL, and, asc, count, desc, eq, ilike, inArray, or, sql } from 'drizzle-orm'
+import type { Database, Queryable } from '../../db/client'
 import { customers, jobs, staffUsers, vehicles } from '../../db/schema'
-import type { JobInput, JobListQuery } from '../../../shared/schemas/records'
+import { canMoveJob, type JobInput, type JobListQuery, type JobStatus } from '../../../shared/schemas/records'
 import { likePattern } from '../../lib/db-errors'
+
+/**
+ * Moves a job to `to` when its status is one of `from`, inside the caller's transaction; answers
+ * whether it moved. Every automatic move (an inspection starting, an estimate sent, a deposit paid)
+ * goes through here, and each one must be a move the shared table allows.
+ */
+export async function setJobStatus(
+  q: Queryable,
+  workshopId: string,
+  jobId: string,
+  from: readonly JobStatus[],
+  to: JobStatus,
+): Promise<boolean> {
+  const refused = from.filter((f) => !canMoveJob(f, to))
+  if (refused.length > 0) throw new Error(`job status cannot move from ${refused.join(', ')} to ${to}`)
+  const moved = await q
+    .update(jobs)
+    .set({ status: to })
+    .where(and(eq(jobs.workshopId, workshopId), eq(jobs.id, jobId), inArray(jobs.status, [...from])))
+    .returning({ id: jobs.id })
+  return moved.length > 0
+}
 
 export function createJobsRepo(db: Database) {
   const base = () =>

@@ -1,7 +1,7 @@
 import { deleteOrRefuse } from '../../lib/db-errors'
 import { type ErrorIssue, NotFoundError, ValidationError } from '../../lib/errors'
 import type { Page } from '../../../shared/schemas/common'
-import type { Job, JobInput, JobListQuery } from '../../../shared/schemas/records'
+import { canMoveJob, jobStatusLabels, jobTransitions, type Job, type JobInput, type JobListQuery } from '../../../shared/schemas/records'
 import type { JobsRepo } from './jobs.repo'
 
 type Found = NonNullable<Awaited<ReturnType<JobsRepo['find']>>>
@@ -55,6 +55,16 @@ export function createJobsService(repo: JobsRepo) {
       const current = await repo.find(workshopId, id)
       if (!current) throw notFound()
       await checkRefs(workshopId, input, current.row.technicianId)
+      const from = current.row.status
+      if (!canMoveJob(from, input.status)) {
+        const allowed = jobTransitions[from].map((t) => jobStatusLabels[t])
+        throw new ValidationError('Some of the details are not right. Please check the highlighted fields.', [
+          {
+            path: ['body', 'status'],
+            message: `A job that is “${jobStatusLabels[from]}” can move only to ${allowed.map((l) => `“${l}”`).join(' or ')}`,
+          },
+        ])
+      }
       // PUT replaces the job: a date or technician left out is cleared, not kept (drizzle skips undefined),
       // which also keeps an old booking date from tripping the promised-after-booked check.
       const values = {

@@ -1,9 +1,10 @@
 import { and, desc, eq } from 'drizzle-orm'
-import type { Database } from '../../db/client'
+import type { Database, Queryable, Tx } from '../../db/client'
+import { setJobStatus } from '../jobs/jobs.repo'
 import { customers, depositPayments, estimateConfirmations, estimates, estimateVersions, paymentEvents, workshops } from '../../db/schema'
 
-export type Tx = Parameters<Parameters<Database['transaction']>[0]>[0]
-type Db = Database | Tx
+export type { Tx }
+type Db = Queryable
 
 export type DepositRow = typeof depositPayments.$inferSelect
 
@@ -11,6 +12,7 @@ export type DepositRow = typeof depositPayments.$inferSelect
 export function createDepositsRepo(db: Database) {
   return {
     transaction: <T>(fn: (tx: Tx) => Promise<T>) => db.transaction(fn),
+    setJobStatus,
 
     /** Everything a payment page, receipt or live event says about one confirmation. */
     async confirmationContext(q: Db, confirmationId: string) {
@@ -22,7 +24,7 @@ export function createDepositsRepo(db: Database) {
             depositMinor: estimateConfirmations.depositMinor,
           },
           version: { id: estimateVersions.id, version: estimateVersions.version, snapshot: estimateVersions.snapshot },
-          estimate: { id: estimates.id, number: estimates.number, withdrawnAt: estimates.withdrawnAt },
+          estimate: { id: estimates.id, number: estimates.number, jobId: estimates.jobId, withdrawnAt: estimates.withdrawnAt },
           workshop: { id: workshops.id, name: workshops.name, email: workshops.email },
           customer: { id: customers.id, name: customers.name, email: customers.email },
         })

@@ -2,11 +2,9 @@ import type { Request } from 'express'
 import type { Logger } from 'pino'
 import Stripe from 'stripe'
 import { z } from 'zod'
-import { and, eq, sql } from 'drizzle-orm'
 import type { Database } from '../../db/client'
-import { jobs } from '../../db/schema'
 import type { Env } from '../../env'
-import { recordAudit } from '../../lib/audit'
+import { auditContextOf, recordAudit } from '../../lib/audit'
 import { AppError, ConflictError, NotFoundError } from '../../lib/errors'
 import { publishLive } from '../../lib/live-publish'
 import type { EmailOutbox } from '../email/outbox'
@@ -248,7 +246,7 @@ export function createDepositsService(deps: DepositsDeps) {
     const paid = await repo.update(tx, deposit.id, { status: 'paid', paidAt: new Date(event.created * 1000), paymentIntentId })
     const ctx = await mustContext(tx, deposit.confirmationId)
     const amount = formatMoney(paid.amountMinor, paid.currency)
-    await recordAudit(tx, req, {
+    await recordAudit(tx, req ? auditContextOf(req) : null, {
       action: 'deposit.paid',
       workshopId: ctx.workshop.id,
       actor: { kind: 'system', name: 'Card payment' },
@@ -271,16 +269,7 @@ export function createDepositsService(deps: DepositsDeps) {
     })
     await sendReceipt(tx, ctx, 'deposit.paid', paid.amountMinor, paid.currency, log)
     // With the deposit in, the approved work can start.
-    await tx
-      .update(jobs)
-      .set({ status: 'in_work' })
-      .where(
-        and(
-          eq(jobs.workshopId, ctx.confirmation.workshopId),
-          eq(jobs.id, sql`(select job_id from estimates where id = ${ctx.estimate.id})`),
-          eq(jobs.status, 'waiting_for_customer'),
-        ),
-      )
+    await repo.setJobStatus(tx, ctx.confirmation.workshopId, ctx.estimate.jobId, ['waiting_for_customer'], 'in_work')
     return 'paid'
   }
 
@@ -357,7 +346,7 @@ export function createDepositsService(deps: DepositsDeps) {
         const session = await newSession(ctx, deposit, attempt, urls)
         if (!session.url) throw new Error(`checkout session ${session.id} came back without a url (status ${session.status})`)
         await repo.update(tx, deposit.id, { checkoutSessionId: session.id })
-        await recordAudit(tx, urls.req ?? null, {
+        await recordAudit(tx, urls.req ? auditContextOf(urls.req) : null, {
           action: 'deposit.checkout_started',
           workshopId: ctx.workshop.id,
           actor: { kind: 'customer', id: ctx.customer.id, name: ctx.customer.name },
@@ -430,7 +419,7 @@ export function createDepositsService(deps: DepositsDeps) {
           refundedMinor: refund.amount,
           refundedAt: new Date(),
         })
-        await recordAudit(tx, req, {
+        await recordAudit(tx, req ? auditContextOf(req) : null, {
           action: 'deposit.refunded',
           workshopId: ctx.workshop.id,
           subject: { type: 'estimate', id: ctx.estimate.id },

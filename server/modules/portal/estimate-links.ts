@@ -1,10 +1,9 @@
 import { randomBytes } from 'node:crypto'
 import { and, eq, inArray, isNull, ne, sql } from 'drizzle-orm'
-import type { Database } from '../../db/client'
+import type { Queryable } from '../../db/client'
+import { linkExpiresAtSql } from '../estimates/estimate-status.sql'
 import { estimateLinks, estimateVersions } from '../../db/schema'
 import { hashToken } from '../../lib/tokens'
-
-type Tx = Pick<Database, 'insert' | 'update' | 'select'>
 
 /**
  * The customer's link to one estimate version. 256 random bits, of which only the SHA-256 is
@@ -13,7 +12,7 @@ type Tx = Pick<Database, 'insert' | 'update' | 'select'>
  * estimate is withdrawn.
  */
 export async function issueEstimateLink(
-  tx: Tx,
+  tx: Queryable,
   link: { workshopId: string; versionId: string; customerId: string; expiresAt: Date },
 ): Promise<string> {
   const token = randomBytes(32).toString('base64url')
@@ -22,7 +21,7 @@ export async function issueEstimateLink(
 }
 
 /** Revokes every live link of the estimate's versions, except those of `keepVersionId`. */
-export async function revokeEstimateLinks(tx: Tx, workshopId: string, estimateId: string, keepVersionId?: string): Promise<void> {
+export async function revokeEstimateLinks(tx: Queryable, workshopId: string, estimateId: string, keepVersionId?: string): Promise<void> {
   const versions = tx
     .select({ id: estimateVersions.id })
     .from(estimateVersions)
@@ -38,6 +37,17 @@ export async function revokeEstimateLinks(tx: Tx, workshopId: string, estimateId
         keepVersionId ? ne(estimateLinks.versionId, keepVersionId) : undefined,
       ),
     )
+}
+
+/** The end of the version's decision day in the workshop's time zone: when its links stop working. */
+export async function linkExpiry(q: Queryable, workshopId: string, versionId: string): Promise<Date> {
+  const r = await q.execute<{ at: Date | string }>(sql`
+    select ${linkExpiresAtSql(sql`v.expires_on`, sql`w.timezone`)} as at
+    from estimate_versions v join workshops w on w.id = v.workshop_id
+    where v.workshop_id = ${workshopId} and v.id = ${versionId}`)
+  const at = r.rows[0]?.at
+  if (!at) throw new Error('version vanished while issuing a link')
+  return new Date(at)
 }
 
 /** Where the customer's link leads; the portal reads the token from the query string. */

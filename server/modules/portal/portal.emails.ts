@@ -1,36 +1,8 @@
-import { escapeHtml } from '../../lib/mailer'
+import { type EmailBlock as Block, type EmailContent as Email, renderEmail as render } from '../../lib/email-layout'
 import { formatMoney } from '../../../shared/money'
 import type { EstimateResult } from '../../../shared/estimate/contract'
 import type { EstimateSnapshot, SnapshotItem } from '../../../shared/schemas/estimates'
 import { CANCELLATION_DAYS, CANCELLATION_NOTICE } from './cancellation'
-
-/** A message as paragraphs; the plain-text and HTML bodies are built from the same words. */
-type Block = { text: string } | { link: string; label: string } | { quote: string } | { small: string }
-
-interface Email {
-  subject: string
-  text: string
-  html: string
-}
-
-function render(subject: string, blocks: Block[]): Email {
-  const text = blocks
-    .map((b) => ('text' in b ? b.text : 'link' in b ? `${b.label}: ${b.link}` : 'quote' in b ? b.quote.replace(/^/gm, '> ') : b.small))
-    .join('\n\n')
-  const html = `<!doctype html><html><body style="font-family:Lato,Arial,sans-serif;color:#1b1b1b;max-width:560px">
-${blocks
-  .map((b) => {
-    if ('text' in b) return `<p>${escapeHtml(b.text).replace(/\n/g, '<br>')}</p>`
-    if ('link' in b)
-      return `<p><a href="${escapeHtml(b.link)}" style="display:inline-block;background:#1F3A4D;color:#ffffff;padding:12px 20px;border-radius:6px;text-decoration:none">${escapeHtml(b.label)}</a></p>`
-    if ('quote' in b)
-      return `<blockquote style="border-left:4px solid #C8642B;margin:0;padding:4px 12px;color:#333">${escapeHtml(b.quote).replace(/\n/g, '<br>')}</blockquote>`
-    return `<p style="font-size:14px;color:#444">${escapeHtml(b.small).replace(/\n/g, '<br>')}</p>`
-  })
-  .join('\n')}
-</body></html>`
-  return { subject, text, html }
-}
 
 const workshopFooter = (s: EstimateSnapshot): Block => ({
   small: [

@@ -1,5 +1,5 @@
 import { and, asc, desc, eq, getTableColumns, sql } from 'drizzle-orm'
-import type { Database } from '../../db/client'
+import type { Database, Queryable, Tx } from '../../db/client'
 import {
   customers,
   depositPayments,
@@ -9,19 +9,20 @@ import {
   estimateQuestions,
   estimates,
   estimateVersions,
-  jobs,
   photos,
   staffUsers,
   workshops,
 } from '../../db/schema'
+import { setJobStatus } from '../jobs/jobs.repo'
 import type { Decision } from '../../../shared/estimate/contract'
 import type { EstimateSnapshot } from '../../../shared/schemas/estimates'
 
-export type Tx = Parameters<Parameters<Database['transaction']>[0]>[0]
-export type Queryable = Database | Tx
+import { versionExpiredSql } from '../estimates/estimate-status.sql'
+import { linkExpiry } from './estimate-links'
 
-/** The decision date is a calendar day of the workshop: expired once that day has ended where the workshop is. */
-const expiredSql = sql<boolean>`${estimateVersions.expiresOn} < (now() at time zone ${workshops.timezone})::date`
+export type { Queryable, Tx }
+
+const expiredSql = versionExpiredSql(estimateVersions.expiresOn, workshops.timezone)
 
 const versionColumns = { ...getTableColumns(estimateVersions), expired: expiredSql }
 
@@ -161,23 +162,9 @@ export function createPortalRepo(db: Database) {
     },
 
     /** A job already finished or cancelled is left as it is: a late confirmation does not reopen it. */
-    async startWork(tx: Tx, workshopId: string, jobId: string) {
-      await tx
-        .update(jobs)
-        .set({ status: 'in_work' })
-        .where(and(eq(jobs.workshopId, workshopId), eq(jobs.id, jobId), sql`${jobs.status} not in ('finished', 'cancelled')`))
-    },
+    setJobStatus,
 
-    /** The end of the version's decision day in the workshop's time zone: when its links stop working. */
-    async linkExpiry(q: Queryable, workshopId: string, versionId: string): Promise<Date> {
-      const r = await q.execute<{ at: Date | string }>(sql`
-        select ((v.expires_on + 1)::timestamp at time zone w.timezone) as at
-        from estimate_versions v join workshops w on w.id = v.workshop_id
-        where v.workshop_id = ${workshopId} and v.id = ${versionId}`)
-      const at = r.rows[0]?.at
-      if (!at) throw new Error('version vanished while issuing a link')
-      return new Date(at)
-    },
+    linkExpiry,
 
     async customer(q: Queryable, workshopId: string, customerId: string) {
       const [row] = await q
@@ -205,7 +192,7 @@ export function createPortalRepo(db: Database) {
         workshop_name: string
       }>(sql`
         select e.id, e.withdrawn_at, v.version, v.snapshot, v.sent_at, v.expires_on::text as expires_on,
-          v.expires_on < (now() at time zone w.timezone)::date as expired,
+          ${versionExpiredSql(sql`v.expires_on`, sql`w.timezone`)} as expired,
           v.opened_at, v.confirmed_at, v.proposed_gross, ec.approved_gross, dp.status as deposit_status, w.name as workshop_name
         from estimates e
         join workshops w on w.id = e.workshop_id

@@ -3,7 +3,7 @@ import { and, eq } from 'drizzle-orm'
 import type { Logger } from 'pino'
 import { estimates } from '../../db/schema'
 import type { Env } from '../../env'
-import { recordAudit } from '../../lib/audit'
+import { auditContextOf, recordAudit } from '../../lib/audit'
 import { AppError, type ErrorIssue, NotFoundError, ValidationError } from '../../lib/errors'
 import { publishLive } from '../../lib/live-publish'
 import type { FileStorage } from '../../lib/storage'
@@ -17,7 +17,7 @@ import { safeCalculateEstimate } from '../../../shared/estimate'
 import { formatMoney } from '../../../shared/money'
 import type { CustomerPrincipal, Principal, StaffPrincipal } from '../../../shared/schemas/auth'
 import type { Decision, EstimateResult } from '../../../shared/estimate/contract'
-import { snapshotToEngineInput, type EstimateSnapshot, type SnapshotItem } from '../../../shared/schemas/estimates'
+import { sentEstimateStatusOf, snapshotToEngineInput, type EstimateSnapshot, type SnapshotItem } from '../../../shared/schemas/estimates'
 import type {
   AnswerQuestion,
   AskQuestion,
@@ -42,7 +42,7 @@ export class PortalRefusal extends AppError {
     status: number,
     code: string,
     message: string,
-    readonly details: LinkRefusalDetails | SupersededDetails | Record<string, unknown>,
+    override readonly details: LinkRefusalDetails | SupersededDetails | Record<string, unknown>,
     issues?: ErrorIssue[],
   ) {
     super(status, code, message, issues)
@@ -151,15 +151,15 @@ export function createPortalService(deps: PortalServiceDeps) {
   function statusOf(
     estimate: { withdrawnAt: Date | null },
     v: Pick<VersionRow, 'confirmedAt' | 'expired' | 'openedAt'>,
-    depositStatus: string | null | undefined,
+    depositStatus: 'awaiting_payment' | 'paid' | 'refunded' | null | undefined,
   ): PortalEstimateStatus {
-    // The same order as the staff list's status (estimates.repo.ts), so both sides name the same state.
-    if (estimate.withdrawnAt) return 'withdrawn'
-    if (depositStatus === 'paid' || depositStatus === 'refunded') return 'deposit_paid'
-    if (v.confirmedAt) return 'confirmed'
-    if (v.expired) return 'expired'
-    if (v.openedAt) return 'opened'
-    return 'sent'
+    return sentEstimateStatusOf({
+      withdrawn: estimate.withdrawnAt !== null,
+      depositStatus: depositStatus ?? null,
+      confirmed: v.confirmedAt !== null,
+      expired: v.expired,
+      opened: v.openedAt !== null,
+    })
   }
 
   function depositOf(confirmed: Confirmed | undefined, currency: string): PortalDeposit {
@@ -291,7 +291,7 @@ export function createPortalService(deps: PortalServiceDeps) {
       await repo.transaction(async (tx) => {
         await repo.touchLink(tx, link.id)
         const first = await repo.markOpened(tx, link.workshopId, version.id)
-        await recordAudit(tx, req, {
+        await recordAudit(tx, auditContextOf(req), {
           action: 'estimate.opened',
           workshopId: link.workshopId,
           actor: { kind: 'customer', id: principal.id, name: principal.name },
@@ -348,7 +348,7 @@ export function createPortalService(deps: PortalServiceDeps) {
             },
             tx,
           )
-          await recordAudit(tx, req, {
+          await recordAudit(tx, auditContextOf(req), {
             action: 'estimate.link_renewed',
             workshopId: link.workshopId,
             actor: { kind: 'anonymous' },
@@ -454,7 +454,7 @@ export function createPortalService(deps: PortalServiceDeps) {
           )
         }
         const result = decided.data
-        await recordAudit(tx, req, {
+        await recordAudit(tx, auditContextOf(req), {
           action: 'estimate.decided',
           workshopId: me.workshop.id,
           subject: { type: 'estimate', id: estimateId },
@@ -546,9 +546,16 @@ export function createPortalService(deps: PortalServiceDeps) {
         })
         await repo.markConfirmed(tx, me.workshop.id, version.id)
         // With a deposit due, work waits for the provider's word that it is paid (the deposits module moves the job on).
-        if (anyApproved && result.approved.deposit === 0) await repo.startWork(tx, me.workshop.id, estimate.jobId)
+        if (anyApproved && result.approved.deposit === 0)
+          await repo.setJobStatus(
+            tx,
+            me.workshop.id,
+            estimate.jobId,
+            ['booked_in', 'inspecting', 'quoting', 'waiting_for_customer'],
+            'in_work',
+          )
         const money = (minor: number) => formatMoney(minor, result.currency)
-        await recordAudit(tx, req, {
+        await recordAudit(tx, auditContextOf(req), {
           action: 'estimate.confirmed',
           workshopId: me.workshop.id,
           subject: { type: 'estimate', id: estimateId },
@@ -698,7 +705,7 @@ export function createPortalService(deps: PortalServiceDeps) {
             tx,
           )
         }
-        await recordAudit(tx, req, {
+        await recordAudit(tx, auditContextOf(req), {
           action: 'estimate.question_asked',
           workshopId: me.workshop.id,
           subject: { type: 'estimate', id: estimateId },
@@ -764,7 +771,7 @@ export function createPortalService(deps: PortalServiceDeps) {
             tx,
           )
         }
-        await recordAudit(tx, req, {
+        await recordAudit(tx, auditContextOf(req), {
           action: 'estimate.question_answered',
           workshopId: me.workshop.id,
           subject: { type: 'estimate', id: estimateId },

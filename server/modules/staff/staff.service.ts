@@ -1,7 +1,7 @@
 import type { Request } from 'express'
 import type { Database } from '../../db/client'
 import type { staffUsers } from '../../db/schema'
-import { recordAudit } from '../../lib/audit'
+import { auditContextOf, recordAudit } from '../../lib/audit'
 import { ConflictError, NotFoundError } from '../../lib/errors'
 import type { StaffPrincipal } from '../../../shared/schemas/auth'
 import type { InviteStaff, StaffMember } from '../../../shared/schemas/staff'
@@ -46,7 +46,7 @@ export function createStaffService(deps: { repo: StaffRepo; authRepo: AuthRepo; 
       if (await repo.emailTaken(input.email))
         throw new ConflictError('Someone already uses that e-mail address on Tickover.', 'email_taken')
       const row = await repo.insert({ workshopId: me.workshop.id, name: input.name, email: input.email, role: input.role })
-      await recordAudit(db, req, {
+      await recordAudit(db, auditContextOf(req), {
         action: 'staff.invited',
         workshopId: me.workshop.id,
         subject: { type: 'staff', id: row.id },
@@ -61,7 +61,7 @@ export function createStaffService(deps: { repo: StaffRepo; authRepo: AuthRepo; 
       if (target.role === 'owner') await keepAnOwner(me, target)
       const row = await repo.update(me.workshop.id, id, { role })
       if (!row) throw new NotFoundError()
-      await recordAudit(db, req, {
+      await recordAudit(db, auditContextOf(req), {
         action: 'staff.role_changed',
         workshopId: me.workshop.id,
         subject: { type: 'staff', id },
@@ -78,7 +78,11 @@ export function createStaffService(deps: { repo: StaffRepo; authRepo: AuthRepo; 
       const row = await repo.update(me.workshop.id, id, { deactivatedAt: new Date() })
       if (!row) throw new NotFoundError()
       await authRepo.endSessionsOf('staff', id)
-      await recordAudit(db, req, { action: 'staff.deactivated', workshopId: me.workshop.id, subject: { type: 'staff', id } })
+      await recordAudit(db, auditContextOf(req), {
+        action: 'staff.deactivated',
+        workshopId: me.workshop.id,
+        subject: { type: 'staff', id },
+      })
       return toStaffMember(row)
     },
 
@@ -87,7 +91,11 @@ export function createStaffService(deps: { repo: StaffRepo; authRepo: AuthRepo; 
       if (!target.deactivatedAt) return toStaffMember(target)
       const row = await repo.update(me.workshop.id, id, { deactivatedAt: null })
       if (!row) throw new NotFoundError()
-      await recordAudit(db, req, { action: 'staff.reactivated', workshopId: me.workshop.id, subject: { type: 'staff', id } })
+      await recordAudit(db, auditContextOf(req), {
+        action: 'staff.reactivated',
+        workshopId: me.workshop.id,
+        subject: { type: 'staff', id },
+      })
       return toStaffMember(row)
     },
   }

@@ -1,7 +1,7 @@
 import type { Request } from 'express'
 import type { Database } from '../../db/client'
 import type { workshops } from '../../db/schema'
-import { recordAudit } from '../../lib/audit'
+import { auditContextOf, recordAudit } from '../../lib/audit'
 import { NotFoundError } from '../../lib/errors'
 import type { StaffPrincipal } from '../../../shared/schemas/auth'
 import type { Workshop, WorkshopSettings } from '../../../shared/schemas/workshop'
@@ -37,7 +37,7 @@ export function createWorkshopService(deps: { repo: WorkshopRepo; db: Database }
         (k) => JSON.stringify(before[k] ?? null) !== JSON.stringify(after[k] ?? null),
       )
       if (changed.length > 0) {
-        await recordAudit(db, req, {
+        await recordAudit(db, auditContextOf(req), {
           action: 'settings.changed',
           workshopId: me.workshop.id,
           subject: { type: 'workshop', id: me.workshop.id },
