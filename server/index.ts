@@ -7,7 +7,8 @@ import { createLiveHub } from './lib/live-hub'
 import { createLogger } from './lib/logger'
 import { createMailer } from './lib/mailer'
 import { createQueue } from './lib/queue'
-import { renderVersionPdf } from './modules/estimates/estimate-document'
+import { createEstimateDocumentRepo } from './modules/estimates/estimate-document.repo'
+import { createEstimateDocumentService } from './modules/estimates/estimate-document.service'
 import { createEmailOutbox, createEmailWorker } from './modules/email/outbox'
 
 let env
@@ -28,12 +29,13 @@ const liveHub = createLiveHub({ connectionString: env.DATABASE_URL, logger })
 const mailer = createMailer(env)
 const jobs = createQueue(env.DATABASE_URL, logger)
 const outbox = createEmailOutbox({ db, jobs })
+const documents = createEstimateDocumentService({ repo: createEstimateDocumentRepo(db) })
 const emailWorker = createEmailWorker({
   db,
   jobs,
   mailer,
   logger,
-  attachments: { 'estimate-pdf': async (a) => (await renderVersionPdf(db, a.workshopId, a.versionId)).bytes },
+  attachments: { 'estimate-pdf': async (a) => (await documents.renderVersion(a.workshopId, a.versionId)).bytes },
 })
 emailWorker.start()
 const app = createApp({ env, db, pool, logger, version: pkg.version, liveHub, mailer, outbox })

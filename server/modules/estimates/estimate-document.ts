@@ -1,56 +1,8 @@
-import { and, eq } from 'drizzle-orm'
 import type { Database } from '../../db/client'
-import { depositPayments, estimateConfirmations, estimateVersions, workshops } from '../../db/schema'
-import { NotFoundError } from '../../lib/errors'
-import { calculateEstimate } from '../../../shared/estimate'
-import { snapshotToEngineInput } from '../../../shared/schemas/estimates'
-import { renderEstimatePdf } from './estimate-pdf'
+import { createEstimateDocumentRepo } from './estimate-document.repo'
+import { createEstimateDocumentService } from './estimate-document.service'
 
-/**
- * The PDF of one sent version as it stands: with the decision record once the customer has
- * confirmed, otherwise with every item proposed. The advisor's download, the customer's download
- * and the e-mail attachment all come from here, so they are the same document.
- */
-export async function renderVersionPdf(
-  db: Database,
-  workshopId: string,
-  versionId: string,
-): Promise<{ bytes: Uint8Array; filename: string }> {
-  const [row] = await db
-    .select({ version: estimateVersions, confirmation: estimateConfirmations, deposit: depositPayments, timezone: workshops.timezone })
-    .from(estimateVersions)
-    .innerJoin(workshops, eq(workshops.id, estimateVersions.workshopId))
-    .leftJoin(estimateConfirmations, eq(estimateConfirmations.versionId, estimateVersions.id))
-    .leftJoin(depositPayments, eq(depositPayments.confirmationId, estimateConfirmations.id))
-    .where(and(eq(estimateVersions.workshopId, workshopId), eq(estimateVersions.id, versionId)))
-  if (!row) throw new NotFoundError('No such estimate version.')
-  const { version, confirmation, deposit } = row
-  // Before confirmation the document shows the proposal: choices still being made are not a decision record.
-  const result = confirmation?.result ?? calculateEstimate(snapshotToEngineInput(version.snapshot))
-  const bytes = await renderEstimatePdf({
-    snapshot: version.snapshot,
-    result,
-    sentAt: version.sentAt.toISOString(),
-    timezone: row.timezone,
-    hash: version.hash,
-    decision: confirmation
-      ? {
-          confirmedAt: confirmation.confirmedAt.toISOString(),
-          decisions: confirmation.decisions,
-          consents: confirmation.consents,
-          versionHash: confirmation.versionHash,
-          ip: confirmation.ip,
-          userAgent: confirmation.userAgent,
-        }
-      : null,
-    deposit: deposit
-      ? {
-          amountMinor: deposit.amountMinor,
-          status: deposit.status,
-          paidAt: deposit.paidAt?.toISOString() ?? null,
-          refundedMinor: deposit.refundedMinor,
-        }
-      : null,
-  })
-  return { bytes, filename: `${version.snapshot.reference}-v${version.version}.pdf` }
+/** For the portal's PDF route, which holds only the database until it is given the document service. */
+export function renderVersionPdf(db: Database, workshopId: string, versionId: string): Promise<{ bytes: Uint8Array; filename: string }> {
+  return createEstimateDocumentService({ repo: createEstimateDocumentRepo(db) }).renderVersion(workshopId, versionId)
 }

@@ -7,7 +7,8 @@ import { createLiveHub } from '../../../server/lib/live-hub'
 import { loadEnv } from '../../../server/env'
 import { createMailer } from '../../../server/lib/mailer'
 import { createQueue } from '../../../server/lib/queue'
-import { renderVersionPdf } from '../../../server/modules/estimates/estimate-document'
+import { createEstimateDocumentRepo } from '../../../server/modules/estimates/estimate-document.repo'
+import { createEstimateDocumentService } from '../../../server/modules/estimates/estimate-document.service'
 import { createEmailOutbox, createEmailWorker } from '../../../server/modules/email/outbox'
 
 /** The real app on the test database, without a built client. */
@@ -24,12 +25,13 @@ export function makeTestApp(overrides: Record<string, string> = {}) {
   // …and its own job queue and e-mail worker, started in the background so this stays synchronous.
   const jobs = createQueue(env.DATABASE_URL, logger, { max: 3 })
   const outbox = createEmailOutbox({ db, jobs })
+  const documents = createEstimateDocumentService({ repo: createEstimateDocumentRepo(db) })
   const emailWorker = createEmailWorker({
     db,
     jobs,
     mailer: createMailer(env),
     logger,
-    attachments: { 'estimate-pdf': async (a) => (await renderVersionPdf(db, a.workshopId, a.versionId)).bytes },
+    attachments: { 'estimate-pdf': async (a) => (await documents.renderVersion(a.workshopId, a.versionId)).bytes },
     pollingIntervalSeconds: 0.5,
     concurrency: 1,
   })
