@@ -45,7 +45,10 @@ import { type LiveHub, createLiveHub } from './lib/live-hub'
 import { liveRoutes } from './modules/live/live.routes'
 import { createEstimatesRepo } from './modules/estimates/estimates.repo'
 import { estimatesRoutes } from './modules/estimates/estimates.routes'
-import { createEstimatesService } from './modules/estimates/estimates.service'
+import { createEstimatesService, storedEstimateLinks } from './modules/estimates/estimates.service'
+import { createEstimateItems } from './modules/estimates/estimate-items'
+import { createEstimateDocumentRepo } from './modules/estimates/estimate-document.repo'
+import { createEstimateDocumentService } from './modules/estimates/estimate-document.service'
 import { createLabourRepo } from './modules/catalogue/labour.repo'
 import { createLabourService } from './modules/catalogue/labour.service'
 import { createPricingRepo } from './modules/catalogue/pricing.repo'
@@ -177,6 +180,8 @@ export function createApp(deps: AppDeps): express.Express {
   api.use(csrfProtection(env.ALLOWED_ORIGINS))
 
   const pricingRepo = createPricingRepo(db)
+  const estimatesRepo = createEstimatesRepo(db)
+  const documents = createEstimateDocumentService({ repo: createEstimateDocumentRepo(db) })
   const groups = [
     systemRoutes(table, createSystemService(pool, deps.version ?? '0.0.0')),
     authRoutes(table, { passport, service: authService, db, limits: createAuthLimits(env, pool) }),
@@ -215,11 +220,15 @@ export function createApp(deps: AppDeps): express.Express {
     liveRoutes(table, liveHub),
     paymentsRoutes(table, deposits),
     ...estimatesRoutes(table, {
-      db,
+      documents,
       service: createEstimatesService({
-        repo: createEstimatesRepo(db),
-        labour: createLabourService({ repo: createLabourRepo(db), pricing: pricingRepo }),
-        pricing: pricingRepo,
+        repo: estimatesRepo,
+        items: createEstimateItems({
+          repo: estimatesRepo,
+          labour: createLabourService({ repo: createLabourRepo(db), pricing: pricingRepo }),
+          pricing: pricingRepo,
+        }),
+        links: storedEstimateLinks,
         outbox: deps.outbox,
         env,
         logger,

@@ -15,17 +15,92 @@ import {
   vehicles,
   workshops,
 } from '../../db/schema'
-import { setJobStatus } from '../jobs/jobs.repo'
-import type { EstimateListQuery, EstimateStatus } from '../../../shared/schemas/estimates'
-import { estimateStatusJoins, estimateStatusSql } from './estimate-status.sql'
+import { recordAudit } from '../../lib/audit'
 import { likePattern } from '../../lib/db-errors'
+import { publishLive } from '../../lib/live-publish'
+import { setJobStatus } from '../jobs/jobs.repo'
+import type {
+  EstimateDefaults,
+  EstimateDraft,
+  EstimateListQuery,
+  EstimateSnapshot,
+  EstimateStatus,
+} from '../../../shared/schemas/estimates'
+import { estimateStatusJoins, estimateStatusSql } from './estimate-status.sql'
 
 export type { Queryable, Tx }
 
+export type EstimateRecord = typeof estimates.$inferSelect
+export type VersionRecord = typeof estimateVersions.$inferSelect
+export type FindingRecord = typeof findings.$inferSelect
+export type DecisionRecord = typeof estimateDecisions.$inferSelect
+export type OutboundEmailRecord = typeof outboundEmails.$inferSelect
+
+/** An estimate with the job, vehicle, customer and workshop it is for. */
+export interface EstimateRow {
+  estimate: EstimateRecord
+  job: typeof jobs.$inferSelect
+  vehicle: typeof vehicles.$inferSelect
+  customer: typeof customers.$inferSelect
+  workshop: typeof workshops.$inferSelect
+}
+
+/** A sent version with the customer's confirmation and its deposit, when there are any. */
+export interface VersionRow {
+  version: VersionRecord
+  confirmation: typeof estimateConfirmations.$inferSelect | null
+  deposit: typeof depositPayments.$inferSelect | null
+}
+
+/** One line of the estimates list, as the list query answers it. */
+export type EstimateListRow = {
+  id: string
+  number: number
+  status: EstimateStatus
+  job_id: string
+  customer_name: string
+  registration: string
+  currency: string
+  draft: unknown
+  proposed_gross: number | null
+  approved_gross: number | null
+  deposit_minor: number | null
+  has_unsent_changes: boolean
+  latest_version: number | null
+  updated_at: string
+  total: string
+}
+
+export interface NewVersion {
+  workshopId: string
+  estimateId: string
+  version: number
+  snapshot: EstimateSnapshot
+  hash: string
+  proposedGross: number
+  expiresOn: string
+  sentBy: string
+}
+
 export function createEstimatesRepo(db: Database) {
   return {
-    db,
+    /** For reads outside a transaction. */
+    db: db as Queryable,
+    transaction: <T>(fn: (tx: Tx) => Promise<T>) => db.transaction(fn),
     setJobStatus,
+    recordAudit,
+    publishLive,
+
+    /** Today in the workshop's time zone: estimate dates are the workshop's calendar days. */
+    async today(q: Queryable, timezone: string): Promise<string> {
+      const r = await q.execute<{ d: string }>(sql`select to_char((now() at time zone ${timezone})::date, 'YYYY-MM-DD') as d`)
+      return r.rows[0]?.d ?? new Date().toISOString().slice(0, 10)
+    },
+
+    /** Holds the job's estimate creation until the transaction ends, so two advisors cannot both open one. */
+    async lockJobEstimates(tx: Tx, jobId: string): Promise<void> {
+      await tx.execute(sql`select pg_advisory_xact_lock(hashtextextended(${`estimate-job:${jobId}`}, 0))`)
+    },
 
     /** The next number in the workshop's sequence. The counter row stays locked until the caller's transaction ends, so numbers are consecutive and a rolled-back creation leaves no gap. */
     async nextNumber(tx: Tx, workshopId: string): Promise<number> {
@@ -56,23 +131,7 @@ export function createEstimatesRepo(db: Database) {
       }[q.sortBy ?? 'updatedAt']
       const descending = q.sortDesc ?? (q.sortBy === undefined || q.sortBy === 'number' || q.sortBy === 'updatedAt')
       const statusFilter = q.status ? sql`where status = ${q.status}` : sql``
-      const rows = await db.execute<{
-        id: string
-        number: number
-        status: EstimateStatus
-        job_id: string
-        customer_name: string
-        registration: string
-        currency: string
-        draft: unknown
-        proposed_gross: number | null
-        approved_gross: number | null
-        deposit_minor: number | null
-        has_unsent_changes: boolean
-        latest_version: number | null
-        updated_at: string
-        total: string
-      }>(sql`
+      const rows = await db.execute<EstimateListRow>(sql`
         with listed as (
           select e.id, e.number, ${estimateStatusSql} as status, e.job_id, c.name as customer_name, ve.registration, w.currency, e.draft,
             v.proposed_gross, ec.approved_gross, ec.deposit_minor,
@@ -104,7 +163,7 @@ export function createEstimatesRepo(db: Database) {
       return result.rows[0]?.status
     },
 
-    async find(q: Queryable, workshopId: string, id: string, lock = false) {
+    async find(q: Queryable, workshopId: string, id: string, lock = false): Promise<EstimateRow | undefined> {
       const query = q
         .select({ estimate: estimates, job: jobs, vehicle: vehicles, customer: customers, workshop: workshops })
         .from(estimates)
@@ -117,7 +176,7 @@ export function createEstimatesRepo(db: Database) {
       return row
     },
 
-    async findJob(q: Queryable, workshopId: string, jobId: string) {
+    async findJob(q: Queryable, workshopId: string, jobId: string): Promise<Omit<EstimateRow, 'estimate'> | undefined> {
       const [row] = await q
         .select({ job: jobs, vehicle: vehicles, customer: customers, workshop: workshops })
         .from(jobs)
@@ -128,7 +187,7 @@ export function createEstimatesRepo(db: Database) {
       return row
     },
 
-    async openEstimateForJob(q: Queryable, workshopId: string, jobId: string) {
+    async openEstimateForJob(q: Queryable, workshopId: string, jobId: string): Promise<{ id: string; number: number } | undefined> {
       const [row] = await q
         .select({ id: estimates.id, number: estimates.number })
         .from(estimates)
@@ -136,7 +195,7 @@ export function createEstimatesRepo(db: Database) {
       return row
     },
 
-    async versions(q: Queryable, workshopId: string, estimateId: string) {
+    async versions(q: Queryable, workshopId: string, estimateId: string): Promise<VersionRow[]> {
       return q
         .select({
           version: estimateVersions,
@@ -150,14 +209,14 @@ export function createEstimatesRepo(db: Database) {
         .orderBy(asc(estimateVersions.version))
     },
 
-    async decisions(q: Queryable, workshopId: string, versionId: string) {
+    async decisions(q: Queryable, workshopId: string, versionId: string): Promise<DecisionRecord[]> {
       return q
         .select()
         .from(estimateDecisions)
         .where(and(eq(estimateDecisions.workshopId, workshopId), eq(estimateDecisions.versionId, versionId)))
     },
 
-    async emails(q: Queryable, workshopId: string, estimateId: string) {
+    async emails(q: Queryable, workshopId: string, estimateId: string): Promise<OutboundEmailRecord[]> {
       return q
         .select()
         .from(outboundEmails)
@@ -166,7 +225,7 @@ export function createEstimatesRepo(db: Database) {
         .limit(50)
     },
 
-    async jobFindings(q: Queryable, workshopId: string, jobId: string) {
+    async jobFindings(q: Queryable, workshopId: string, jobId: string): Promise<FindingRecord[]> {
       return q
         .select()
         .from(findings)
@@ -174,7 +233,7 @@ export function createEstimatesRepo(db: Database) {
         .orderBy(asc(findings.createdAt))
     },
 
-    async findingsByIds(q: Queryable, workshopId: string, ids: string[]) {
+    async findingsByIds(q: Queryable, workshopId: string, ids: string[]): Promise<FindingRecord[]> {
       if (ids.length === 0) return []
       return q
         .select()
@@ -182,7 +241,7 @@ export function createEstimatesRepo(db: Database) {
         .where(and(eq(findings.workshopId, workshopId), inArray(findings.id, ids)))
     },
 
-    async photoIdsOf(q: Queryable, workshopId: string, findingIds: string[]) {
+    async photoIdsOf(q: Queryable, workshopId: string, findingIds: string[]): Promise<Map<string, string[]>> {
       if (findingIds.length === 0) return new Map<string, string[]>()
       const rows = await q
         .select({ id: photos.id, findingId: photos.findingId })
@@ -214,6 +273,63 @@ export function createEstimatesRepo(db: Database) {
           ),
         )
         .orderBy(asc(parts.partNumber))
+    },
+
+    async insertEstimate(
+      tx: Tx,
+      values: { workshopId: string; jobId: string; number: number; draft: EstimateDraft; createdBy: string },
+    ): Promise<EstimateRecord> {
+      const [estimate] = await tx.insert(estimates).values(values).returning()
+      if (!estimate) throw new Error('estimate insert returned nothing')
+      return estimate
+    },
+
+    /** Replaces the draft and moves the revision on; answers nothing when the estimate is gone. */
+    async saveDraft(tx: Tx, workshopId: string, id: string, draft: EstimateDraft, revision: number): Promise<EstimateRecord | undefined> {
+      const [saved] = await tx
+        .update(estimates)
+        .set({ draft, revision })
+        .where(and(eq(estimates.workshopId, workshopId), eq(estimates.id, id)))
+        .returning()
+      return saved
+    },
+
+    /** Records which revision of the draft the customer now has. */
+    async markSent(tx: Tx, workshopId: string, id: string, revision: number): Promise<void> {
+      await tx
+        .update(estimates)
+        .set({ sentRevision: revision })
+        .where(and(eq(estimates.workshopId, workshopId), eq(estimates.id, id)))
+    },
+
+    async markWithdrawn(tx: Tx, workshopId: string, id: string): Promise<void> {
+      await tx
+        .update(estimates)
+        .set({ withdrawnAt: sql`now()` })
+        .where(and(eq(estimates.workshopId, workshopId), eq(estimates.id, id)))
+    },
+
+    async insertVersion(tx: Tx, values: NewVersion): Promise<VersionRecord> {
+      const [saved] = await tx.insert(estimateVersions).values(values).returning()
+      if (!saved) throw new Error('version insert returned nothing')
+      return saved
+    },
+
+    async supersedeVersion(tx: Tx, workshopId: string, versionId: string): Promise<void> {
+      await tx
+        .update(estimateVersions)
+        .set({ supersededAt: sql`now()` })
+        .where(and(eq(estimateVersions.workshopId, workshopId), eq(estimateVersions.id, versionId)))
+    },
+
+    /** The workshop's stored defaults for new estimates, unchecked: the service parses them. */
+    async estimateDefaults(workshopId: string): Promise<unknown> {
+      const [w] = await db.select({ d: workshops.estimateDefaults }).from(workshops).where(eq(workshops.id, workshopId))
+      return w?.d
+    },
+
+    async saveEstimateDefaults(workshopId: string, defaults: EstimateDefaults): Promise<void> {
+      await db.update(workshops).set({ estimateDefaults: defaults }).where(eq(workshops.id, workshopId))
     },
   }
 }
