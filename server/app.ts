@@ -47,7 +47,6 @@ import { createEstimatesRepo } from './modules/estimates/estimates.repo'
 import { estimatesRoutes } from './modules/estimates/estimates.routes'
 import { createEstimatesService, storedEstimateLinks } from './modules/estimates/estimates.service'
 import { createEstimateItems } from './modules/estimates/estimate-items'
-import { createEstimateDocumentRepo } from './modules/estimates/estimate-document.repo'
 import { createEstimateDocumentService } from './modules/estimates/estimate-document.service'
 import { createLabourRepo } from './modules/catalogue/labour.repo'
 import { createLabourService } from './modules/catalogue/labour.service'
@@ -181,7 +180,7 @@ export function createApp(deps: AppDeps): express.Express {
 
   const pricingRepo = createPricingRepo(db)
   const estimatesRepo = createEstimatesRepo(db)
-  const documents = createEstimateDocumentService({ repo: createEstimateDocumentRepo(db) })
+  const documents = createEstimateDocumentService({ repo: estimatesRepo })
   const groups = [
     systemRoutes(table, createSystemService(pool, deps.version ?? '0.0.0')),
     authRoutes(table, { passport, service: authService, db, limits: createAuthLimits(env, pool) }),

@@ -7,7 +7,7 @@ import { createLiveHub } from './lib/live-hub'
 import { createLogger } from './lib/logger'
 import { createMailer } from './lib/mailer'
 import { createQueue } from './lib/queue'
-import { createEstimateDocumentRepo } from './modules/estimates/estimate-document.repo'
+import { createEstimatesRepo } from './modules/estimates/estimates.repo'
 import { createEstimateDocumentService } from './modules/estimates/estimate-document.service'
 import { createEmailOutbox, createEmailWorker } from './modules/email/outbox'
 
@@ -29,7 +29,7 @@ const liveHub = createLiveHub({ connectionString: env.DATABASE_URL, logger })
 const mailer = createMailer(env)
 const jobs = createQueue(env.DATABASE_URL, logger)
 const outbox = createEmailOutbox({ db, jobs })
-const documents = createEstimateDocumentService({ repo: createEstimateDocumentRepo(db) })
+const documents = createEstimateDocumentService({ repo: createEstimatesRepo(db) })
 const emailWorker = createEmailWorker({
   db,
   jobs,

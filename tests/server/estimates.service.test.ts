@@ -29,7 +29,7 @@ const EXPIRES = '2026-06-15'
 const BASE_URL = 'https://tickover.example.test'
 
 function makeRow(): EstimateRow {
-  const at = new Date('2026-05-30T09:00:00Z')
+  const stamps = { createdAt: new Date('2026-05-30T09:00:00Z'), updatedAt: new Date('2026-05-30T09:00:00Z') }
   const workshopId = randomUUID()
   const customerId = randomUUID()
   const vehicleId = randomUUID()
@@ -46,23 +46,21 @@ function makeRow(): EstimateRow {
       currency: 'GBP',
       timezone: 'Europe/London',
       estimateDefaults: DEFAULT_ESTIMATE_DEFAULTS,
-      createdAt: at,
-      updatedAt: at,
+      ...stamps,
     },
     customer: {
       id: customerId,
       workshopId,
       name: 'Rhian Calloway',
       email: 'rhian.calloway@example.test',
-      phone: null,
-      addressLines: [],
-      postcode: null,
+      phone: '07700 900123',
+      addressLines: ['4 Tarn Row'],
+      postcode: 'BF3 9QD',
       contactByEmail: true,
       contactByPhone: false,
       contactBySms: false,
       archivedAt: null,
-      createdAt: at,
-      updatedAt: at,
+      ...stamps,
     },
     vehicle: {
       id: vehicleId,
@@ -77,8 +75,7 @@ function makeRow(): EstimateRow {
       odometerUnit: 'mi',
       vehicleGroup: null,
       archivedAt: null,
-      createdAt: at,
-      updatedAt: at,
+      ...stamps,
     },
     job: {
       id: jobId,
@@ -89,8 +86,7 @@ function makeRow(): EstimateRow {
       technicianId: null,
       bookedFor: null,
       promisedFor: null,
-      createdAt: at,
-      updatedAt: at,
+      ...stamps,
     },
     estimate: {
       id: randomUUID(),
@@ -102,8 +98,7 @@ function makeRow(): EstimateRow {
       sentRevision: null,
       withdrawnAt: null,
       createdBy: null,
-      createdAt: at,
-      updatedAt: at,
+      ...stamps,
     },
   }
 }
@@ -149,6 +144,7 @@ function makeWorld() {
     findJob: notUsed,
     openEstimateForJob: notUsed,
     versions: async () => world.versions,
+    sentVersion: notUsed,
     decisions: async () => [],
     emails: async () => [],
     jobFindings: async () => [],

@@ -2,7 +2,7 @@ import { NotFoundError } from '../../lib/errors'
 import { iso } from '../../../shared/dates'
 import { calculateEstimate } from '../../../shared/estimate'
 import { snapshotToEngineInput } from '../../../shared/schemas/estimates'
-import type { EstimateDocumentRepo } from './estimate-document.repo'
+import type { EstimatesRepo } from './estimates.repo'
 import { renderEstimatePdf } from './estimate-pdf'
 
 /**
@@ -10,11 +10,13 @@ import { renderEstimatePdf } from './estimate-pdf'
  * confirmed, otherwise with every item proposed. The advisor's download, the customer's download
  * and the e-mail attachment all come from here, so they are the same document.
  */
+export type EstimateDocumentRepo = Pick<EstimatesRepo, 'sentVersion'>
+
 export function createEstimateDocumentService(deps: { repo: EstimateDocumentRepo }) {
   const { repo } = deps
   return {
     async renderVersion(workshopId: string, versionId: string): Promise<{ bytes: Uint8Array; filename: string }> {
-      const row = await repo.version(workshopId, versionId)
+      const row = await repo.sentVersion(workshopId, versionId)
       if (!row) throw new NotFoundError('No such estimate version.')
       const { version, confirmation, deposit } = row
       // Before confirmation the document shows the proposal: choices still being made are not a decision record.

@@ -1,8 +1,8 @@
 import type { Database } from '../../db/client'
-import { createEstimateDocumentRepo } from './estimate-document.repo'
+import { createEstimatesRepo } from './estimates.repo'
 import { createEstimateDocumentService } from './estimate-document.service'
 
 /** For the portal's PDF route, which holds only the database until it is given the document service. */
 export function renderVersionPdf(db: Database, workshopId: string, versionId: string): Promise<{ bytes: Uint8Array; filename: string }> {
-  return createEstimateDocumentService({ repo: createEstimateDocumentRepo(db) }).renderVersion(workshopId, versionId)
+  return createEstimateDocumentService({ repo: createEstimatesRepo(db) }).renderVersion(workshopId, versionId)
 }

@@ -82,6 +82,16 @@ export interface NewVersion {
   sentBy: string
 }
 
+/** Versions with the customer's confirmation and its deposit, and their workshop's time zone. */
+function versionRows(q: Queryable) {
+  return q
+    .select({ version: estimateVersions, confirmation: estimateConfirmations, deposit: depositPayments, timezone: workshops.timezone })
+    .from(estimateVersions)
+    .innerJoin(workshops, eq(workshops.id, estimateVersions.workshopId))
+    .leftJoin(estimateConfirmations, eq(estimateConfirmations.versionId, estimateVersions.id))
+    .leftJoin(depositPayments, eq(depositPayments.confirmationId, estimateConfirmations.id))
+}
+
 export function createEstimatesRepo(db: Database) {
   return {
     /** For reads outside a transaction. */
@@ -196,17 +206,15 @@ export function createEstimatesRepo(db: Database) {
     },
 
     async versions(q: Queryable, workshopId: string, estimateId: string): Promise<VersionRow[]> {
-      return q
-        .select({
-          version: estimateVersions,
-          confirmation: estimateConfirmations,
-          deposit: depositPayments,
-        })
-        .from(estimateVersions)
-        .leftJoin(estimateConfirmations, eq(estimateConfirmations.versionId, estimateVersions.id))
-        .leftJoin(depositPayments, eq(depositPayments.confirmationId, estimateConfirmations.id))
+      return versionRows(q)
         .where(and(eq(estimateVersions.workshopId, workshopId), eq(estimateVersions.estimateId, estimateId)))
         .orderBy(asc(estimateVersions.version))
+    },
+
+    /** One sent version, with the time zone its dates are printed in. */
+    async sentVersion(workshopId: string, versionId: string): Promise<(VersionRow & { timezone: string }) | undefined> {
+      const [row] = await versionRows(db).where(and(eq(estimateVersions.workshopId, workshopId), eq(estimateVersions.id, versionId)))
+      return row
     },
 
     async decisions(q: Queryable, workshopId: string, versionId: string): Promise<DecisionRecord[]> {

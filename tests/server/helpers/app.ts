@@ -7,7 +7,7 @@ import { createLiveHub } from '../../../server/lib/live-hub'
 import { loadEnv } from '../../../server/env'
 import { createMailer } from '../../../server/lib/mailer'
 import { createQueue } from '../../../server/lib/queue'
-import { createEstimateDocumentRepo } from '../../../server/modules/estimates/estimate-document.repo'
+import { createEstimatesRepo } from '../../../server/modules/estimates/estimates.repo'
 import { createEstimateDocumentService } from '../../../server/modules/estimates/estimate-document.service'
 import { createEmailOutbox, createEmailWorker } from '../../../server/modules/email/outbox'
 
@@ -25,7 +25,7 @@ export function makeTestApp(overrides: Record<string, string> = {}) {
   // …and its own job queue and e-mail worker, started in the background so this stays synchronous.
   const jobs = createQueue(env.DATABASE_URL, logger, { max: 3 })
   const outbox = createEmailOutbox({ db, jobs })
-  const documents = createEstimateDocumentService({ repo: createEstimateDocumentRepo(db) })
+  const documents = createEstimateDocumentService({ repo: createEstimatesRepo(db) })
   const emailWorker = createEmailWorker({
     db,
     jobs,
