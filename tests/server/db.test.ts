@@ -1,6 +1,7 @@
 import { eq } from 'drizzle-orm'
 import { afterAll, describe, expect, it } from 'vitest'
 import { customers, jobs, staffUsers, vehicles, workshops } from '../../server/db/schema'
+import { violationOf } from '../../server/lib/db-errors'
 import { makeTestApp } from './helpers/app'
 
 const t = makeTestApp()
@@ -12,13 +13,12 @@ async function newWorkshop(name = `Test Works ${Math.random().toString(36).slice
   return shop
 }
 
-/** Postgres puts the violated constraint's name on the error; drizzle wraps it as `cause`. */
+/** The constraint PostgreSQL names when it refuses the statement. */
 async function violation(promise: Promise<unknown>): Promise<string | undefined> {
   try {
     await promise
   } catch (err) {
-    const e = err as { constraint?: string; cause?: { constraint?: string } }
-    return e.cause?.constraint ?? e.constraint
+    return violationOf(err)?.constraint ?? undefined
   }
   return undefined
 }
