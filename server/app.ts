@@ -18,10 +18,12 @@ import { absoluteLifetime, createSessionMiddleware, sessionCookieName } from './
 import { csrfProtection } from './middleware/csrf'
 import { apiNotFound, errorHandler } from './middleware/errors'
 import { requestId } from './middleware/request-id'
+import { createAuditRepo } from './modules/audit/audit.repo'
 import { auditRoutes } from './modules/audit/audit.routes'
+import { createAuditService } from './modules/audit/audit.service'
 import { catalogueRoutes } from './modules/catalogue/catalogue.routes'
 import { createAuthRepo } from './modules/auth/auth.repo'
-import { authRoutes, configureMagicLink, inviteLinkHandler } from './modules/auth/auth.routes'
+import { authRoutes, configureMagicLink, inviteSender } from './modules/auth/auth.routes'
 import { createAuthService } from './modules/auth/auth.service'
 import { portalRoutes } from './modules/portal/portal.routes'
 import { noReferrer, portalEstimateRoutes } from './modules/portal/portal-estimates.routes'
@@ -48,9 +50,16 @@ import { estimatesRoutes } from './modules/estimates/estimates.routes'
 import { createEstimatesService, storedEstimateLinks } from './modules/estimates/estimates.service'
 import { createEstimateItems } from './modules/estimates/estimate-items'
 import { createEstimateDocumentService } from './modules/estimates/estimate-document.service'
+import { createAccessStepsService } from './modules/catalogue/access-steps.service'
+import { createClockTimesService } from './modules/catalogue/clock-times.service'
+import { createLabourFilesService } from './modules/catalogue/labour-files.service'
+import { createLabourOperationsService } from './modules/catalogue/labour-operations.service'
 import { createLabourRepo } from './modules/catalogue/labour.repo'
 import { createLabourService } from './modules/catalogue/labour.service'
+import { createPartsRepo } from './modules/catalogue/parts.repo'
+import { createPartsService } from './modules/catalogue/parts.service'
 import { createPricingRepo } from './modules/catalogue/pricing.repo'
+import { createPricingService } from './modules/catalogue/pricing.service'
 import { createInspectionsRepo } from './modules/inspections/inspections.repo'
 import { inspectionsRoutes } from './modules/inspections/inspections.routes'
 import { createInspectionsService } from './modules/inspections/inspections.service'
@@ -181,19 +190,29 @@ export function createApp(deps: AppDeps): express.Express {
   const pricingRepo = createPricingRepo(db)
   const estimatesRepo = createEstimatesRepo(db)
   const documents = createEstimateDocumentService({ repo: estimatesRepo })
+  const labourRepo = createLabourRepo(db)
+  const labour = createLabourService({ repo: labourRepo, pricing: pricingRepo })
   const groups = [
     systemRoutes(table, createSystemService(pool, deps.version ?? '0.0.0')),
-    authRoutes(table, { passport, service: authService, db, limits: createAuthLimits(env, pool) }),
+    authRoutes(table, { passport, service: authService, limits: createAuthLimits(env, pool) }),
     staffRoutes(table, {
       service: createStaffService({ repo: createStaffRepo(db), authRepo, db }),
-      sendInviteLink: inviteLinkHandler(passport),
+      sendInvite: inviteSender(passport),
     }),
     workshopRoutes(table, createWorkshopService({ repo: createWorkshopRepo(db), db })),
-    auditRoutes(table, db),
+    auditRoutes(table, createAuditService(createAuditRepo(db))),
     portalRoutes(table, db),
     portalEstimateRoutes(table, { service: portalService, db, limits: createRenewLimits(env, pool) }),
     estimateQuestionRoutes(table, portalService),
-    catalogueRoutes(table, db),
+    catalogueRoutes(table, {
+      pricing: createPricingService({ repo: pricingRepo, db }),
+      labour,
+      operations: createLabourOperationsService({ repo: labourRepo, labour }),
+      steps: createAccessStepsService({ repo: labourRepo, labour }),
+      labourFiles: createLabourFilesService({ repo: labourRepo }),
+      clockTimes: createClockTimesService({ repo: labourRepo }),
+      parts: createPartsService({ repo: createPartsRepo(db), pricing: pricingRepo }),
+    }),
     recordRoutes(table, '/customers', {
       read: 'customers:read',
       write: 'customers:write',
@@ -224,7 +243,7 @@ export function createApp(deps: AppDeps): express.Express {
         repo: estimatesRepo,
         items: createEstimateItems({
           repo: estimatesRepo,
-          labour: createLabourService({ repo: createLabourRepo(db), pricing: pricingRepo }),
+          labour,
           pricing: pricingRepo,
         }),
         links: storedEstimateLinks,

@@ -1,6 +1,6 @@
 import { fileTypeFromBuffer } from 'file-type'
 import sharp, { type Metadata } from 'sharp'
-import { AppError } from './errors'
+import { UnsupportedMediaError, ValidationError } from './errors'
 
 /** Limits for one photo, written in the README: 15 MB and 40 megapixels. */
 export const PHOTO_MAX_BYTES = 15 * 1024 * 1024
@@ -11,6 +11,13 @@ const ACCEPTED = new Map([
   ['image/png', 'png'],
   ['image/webp', 'webp'],
 ])
+
+const UNREADABLE = 'That photo could not be read. It may be damaged; try taking it again.'
+
+/** A photo of a kind we take that we still cannot use; the issue points at the upload's field. */
+function photoRefused(message: string, code: string): never {
+  throw new ValidationError(message, [{ path: ['body', 'photos'], message }], code)
+}
 
 export interface ProcessedImage {
   full: Buffer
@@ -28,20 +35,19 @@ export interface ProcessedImage {
 export async function processPhoto(data: Buffer): Promise<ProcessedImage> {
   const detected = await fileTypeFromBuffer(data)
   if (!detected || !ACCEPTED.has(detected.mime)) {
-    throw new AppError(415, 'unsupported_image', 'That file is not a photo we can use. Send a JPEG, PNG or WebP picture.')
+    throw new UnsupportedMediaError('That file is not a photo we can use. Send a JPEG, PNG or WebP picture.', 'unsupported_image')
   }
   let meta: Metadata
   try {
     meta = await sharp(data, { limitInputPixels: false }).metadata()
   } catch {
-    throw new AppError(422, 'unreadable_image', 'That photo could not be read. It may be damaged; try taking it again.')
+    photoRefused(UNREADABLE, 'unreadable_image')
   }
   const pixels = (meta.width ?? 0) * (meta.height ?? 0)
   if (pixels > PHOTO_MAX_PIXELS) {
-    throw new AppError(
-      422,
-      'image_too_large',
+    photoRefused(
       `That photo is ${Math.round(pixels / 1e6)} megapixels; the most we take is ${PHOTO_MAX_PIXELS / 1e6}. Use a lower camera resolution.`,
+      'image_too_large',
     )
   }
   try {
@@ -63,6 +69,6 @@ export async function processPhoto(data: Buffer): Promise<ProcessedImage> {
       height: info.height,
     }
   } catch {
-    throw new AppError(422, 'unreadable_image', 'That photo could not be read. It may be damaged; try taking it again.')
+    photoRefused(UNREADABLE, 'unreadable_image')
   }
 }

@@ -1,18 +1,23 @@
-import type { RequestHandler } from 'express'
+import type { Request, RequestHandler } from 'express'
 import { ipKeyGenerator, rateLimit } from 'express-rate-limit'
 import type pg from 'pg'
+import { z } from 'zod'
 import type { Env } from '../env'
 import { PostgresRateLimitStore } from './rate-limit-store'
 import { hashToken } from './tokens'
 
 const FIFTEEN_MINUTES = 15 * 60_000
 
-function limiter(
-  pool: pg.Pool,
-  prefix: string,
-  limit: number,
-  keyGenerator?: (req: Parameters<RequestHandler>[0]) => string,
-): RequestHandler {
+/** A limit keyed on a body field goes after the body's validation; the hash keeps addresses and tokens out of the store. */
+function hashedBodyField(field: string): (req: Request) => string {
+  const schema = z.object({ [field]: z.string() })
+  return (req) => {
+    const parsed = schema.safeParse(req.body)
+    return hashToken(parsed.success ? (parsed.data[field] ?? '') : '')
+  }
+}
+
+function limiter(pool: pg.Pool, prefix: string, limit: number, keyGenerator?: (req: Request) => string): RequestHandler {
   return rateLimit({
     windowMs: FIFTEEN_MINUTES,
     limit,
@@ -34,7 +39,7 @@ export function createAuthLimits(env: Env, pool: pg.Pool) {
   }
   return {
     byIp: limiter(pool, 'link-ip:', 20, (req) => ipKeyGenerator(req.ip ?? 'unknown')),
-    byEmail: limiter(pool, 'link-email:', 5, (req) => hashToken(String((req.body as { email?: string }).email ?? ''))),
+    byEmail: limiter(pool, 'link-email:', 5, hashedBodyField('email')),
     verifyByIp: limiter(pool, 'verify-ip:', 30, (req) => ipKeyGenerator(req.ip ?? 'unknown')),
   }
 }
@@ -47,6 +52,6 @@ export function createRenewLimits(env: Pick<Env, 'RATE_LIMITS'>, pool: pg.Pool):
   }
   return {
     byIp: limiter(pool, 'renew-ip:', 10, (req) => ipKeyGenerator(req.ip ?? 'unknown')),
-    byToken: limiter(pool, 'renew-token:', 3, (req) => hashToken(String((req.body as { token?: string }).token ?? ''))),
+    byToken: limiter(pool, 'renew-token:', 3, hashedBodyField('token')),
   }
 }

@@ -31,3 +31,5 @@ export function createAuditRepo(db: Database) {
     },
   }
 }
+
+export type AuditRepo = ReturnType<typeof createAuditRepo>

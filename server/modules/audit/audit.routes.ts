@@ -1,37 +1,17 @@
-import { AuditListQuerySchema, type AuditEvent, type AuditListQuery } from '../../../shared/schemas/audit'
-import type { Page } from '../../../shared/schemas/common'
-import type { Database } from '../../db/client'
+import { AuditListQuerySchema } from '../../../shared/schemas/audit'
 import { type RouteTable, staffWith } from '../../lib/route-table'
 import { staffOf } from '../../middleware/auth'
-import { validate } from '../../middleware/validate'
-import { createAuditRepo } from './audit.repo'
+import { handle } from '../../middleware/validate'
+import type { AuditService } from './audit.service'
 
-export function auditRoutes(table: RouteTable, db: Database) {
-  const repo = createAuditRepo(db)
+export function auditRoutes(table: RouteTable, service: AuditService) {
   const g = table.group('/audit-events')
-  g.get('', staffWith('audit:read'), validate({ query: AuditListQuerySchema }), async (req, res) => {
-    const q = req.query as unknown as AuditListQuery
-    const me = staffOf(req)
-    const { items, total } = await repo.list(me.workshop.id, me.workshop.timezone, q)
-    const page: Page<AuditEvent> = {
-      items: items.map((e) => ({
-        id: e.id.toString(),
-        action: e.action,
-        actorKind: e.actorKind,
-        actorId: e.actorId,
-        actorName: e.actorName,
-        subjectType: e.subjectType,
-        subjectId: e.subjectId,
-        details: e.details,
-        ip: e.ip,
-        userAgent: e.userAgent,
-        createdAt: e.createdAt.toISOString(),
-      })),
-      total,
-      page: q.page,
-      pageSize: q.pageSize,
-    }
-    res.json(page)
-  })
+  g.get(
+    '',
+    staffWith('audit:read'),
+    handle({ query: AuditListQuerySchema }, async (req, res) => {
+      res.json(await service.list(staffOf(req), req.query))
+    }),
+  )
   return g
 }

@@ -1,10 +1,9 @@
-import { hashToken } from '../../lib/tokens'
-import type { Request } from 'express'
 import type { Logger } from 'pino'
 import type { Database } from '../../db/client'
 import type { Env } from '../../env'
-import { auditContextOf, recordAudit } from '../../lib/audit'
+import { type AuditContext, recordAudit } from '../../lib/audit'
 import { type Mailer, sendInBackground } from '../../lib/mailer'
+import { hashToken } from '../../lib/tokens'
 import type { Principal } from '../../../shared/schemas/auth'
 import type { AuthRepo } from './auth.repo'
 import { signInEmail } from './auth.emails'
@@ -26,7 +25,7 @@ export function createAuthService(deps: { repo: AuthRepo; db: Database; mailer: 
      * answers the same way either way, and the e-mail goes out in the background so timing tells nothing.
      */
     async issueLink(
-      req: Request,
+      ctx: AuditContext,
       audience: Audience,
       email: string,
       token: string,
@@ -46,7 +45,7 @@ export function createAuthService(deps: { repo: AuthRepo; db: Database; mailer: 
           workshopId: staff.workshopId,
           expiresAt,
         })
-        await recordAudit(db, auditContextOf(req), {
+        await recordAudit(db, ctx, {
           action: 'sign_in.requested',
           workshopId: staff.workshopId,
           actor: { kind: 'anonymous' },
@@ -62,7 +61,7 @@ export function createAuthService(deps: { repo: AuthRepo; db: Database; mailer: 
             link: linkFor('staff', token),
             minutes: SIGN_IN_LINK_SECONDS / 60,
             forCustomer: false,
-            invitedBy: purpose === 'invite' ? req.user?.name : undefined,
+            invitedBy: purpose === 'invite' ? (ctx.actor.name ?? undefined) : undefined,
           }),
           'staff sign-in link',
         )
@@ -82,7 +81,7 @@ export function createAuthService(deps: { repo: AuthRepo; db: Database; mailer: 
         workshopId: customer.workshopId,
         expiresAt,
       })
-      await recordAudit(db, auditContextOf(req), {
+      await recordAudit(db, ctx, {
         action: 'sign_in.requested',
         workshopId: customer.workshopId,
         actor: { kind: 'anonymous' },
@@ -104,13 +103,13 @@ export function createAuthService(deps: { repo: AuthRepo; db: Database; mailer: 
     },
 
     /** Accepts a link once: the token row is consumed atomically, then the principal is loaded fresh. */
-    async acceptLink(req: Request, rawToken: string, audience: Audience): Promise<Principal | null> {
+    async acceptLink(ctx: AuditContext, rawToken: string, audience: Audience): Promise<Principal | null> {
       const tokenHash = hashToken(rawToken)
       const row = await repo.consumeToken(tokenHash)
       if (!row) {
         const known = await repo.findToken(tokenHash)
         const reason = !known ? 'unknown' : known.usedAt ? 'already_used' : 'expired'
-        await recordAudit(db, auditContextOf(req), {
+        await recordAudit(db, ctx, {
           action: 'sign_in.failed',
           workshopId: known?.workshopId ?? null,
           actor: { kind: 'anonymous' },
@@ -119,7 +118,7 @@ export function createAuthService(deps: { repo: AuthRepo; db: Database; mailer: 
         return null
       }
       if (row.principalKind !== audience) {
-        await recordAudit(db, auditContextOf(req), {
+        await recordAudit(db, ctx, {
           action: 'sign_in.failed',
           workshopId: row.workshopId,
           actor: { kind: 'anonymous' },
@@ -130,7 +129,7 @@ export function createAuthService(deps: { repo: AuthRepo; db: Database; mailer: 
       const id = row.principalKind === 'staff' ? row.staffUserId : row.customerId
       const principal = id ? await repo.loadPrincipal(row.principalKind, id) : undefined
       if (!principal) {
-        await recordAudit(db, auditContextOf(req), {
+        await recordAudit(db, ctx, {
           action: 'sign_in.failed',
           workshopId: row.workshopId,
           actor: { kind: 'anonymous' },
@@ -141,22 +140,26 @@ export function createAuthService(deps: { repo: AuthRepo; db: Database; mailer: 
       return principal
     },
 
-    async recordSignIn(req: Request, principal: Principal) {
+    async recordSignIn(ctx: AuditContext, principal: Principal) {
       if (principal.kind === 'staff') await repo.markSignedIn(principal.id)
-      await recordAudit(db, auditContextOf(req), {
+      await recordAudit(db, ctx, {
         action: 'sign_in.succeeded',
         workshopId: principal.workshop.id,
         actor: { kind: principal.kind, id: principal.id, name: principal.name },
       })
     },
 
-    async recordTamperedLink(req: Request) {
-      await recordAudit(db, auditContextOf(req), {
+    async recordTamperedLink(ctx: AuditContext) {
+      await recordAudit(db, ctx, {
         action: 'sign_in.failed',
         workshopId: null,
         actor: { kind: 'anonymous' },
         details: { reason: 'invalid_signature_or_expired' },
       })
+    },
+
+    async recordSignOut(ctx: AuditContext) {
+      await recordAudit(db, ctx, { action: 'sign_out', workshopId: ctx.workshopId })
     },
   }
 }

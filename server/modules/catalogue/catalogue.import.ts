@@ -1,4 +1,5 @@
 import type { z } from 'zod'
+import { ValidationError } from '../../lib/errors'
 import type { ImportIssue, ImportReport, ImportRow } from '../../../shared/schemas/catalogue'
 import { MAX_IMPORT_ROWS } from '../../../shared/schemas/catalogue'
 import { type CsvColumn, readCsv } from './catalogue.csv'
@@ -99,4 +100,13 @@ export function reportOf<Input>(plan: ImportPlan<Input>, table: ImportTable<Inpu
     summary: { added: count('add'), changed: count('change'), unchanged: count('keep') },
     committed,
   }
+}
+
+/** The commit found problems: nothing is written, and each issue's path is [row, column]. */
+export function refuseImport(errors: ImportIssue[]): never {
+  throw new ValidationError(
+    'The file has problems, so nothing was imported. Correct the rows listed and try again.',
+    errors.map((e) => ({ path: [e.row, e.column ?? ''], message: e.message })),
+    'import_has_errors',
+  )
 }

@@ -1,15 +1,22 @@
 import { type SQL, and, asc, count, eq, getTableColumns, inArray, isNotNull, isNull, or, sql } from 'drizzle-orm'
 import { alias } from 'drizzle-orm/pg-core'
-import type { Database, Queryable } from '../../db/client'
+import type { Database, Queryable, Tx } from '../../db/client'
 import { accessStepIncludes, accessSteps, jobs, labourClockTimes, labourOperationAccessSteps, labourOperations } from '../../db/schema'
+import { normalizeDecimal } from '../../../shared/catalogue/decimal'
 import type { LabourSearchQuery, TimeComparisonQuery } from '../../../shared/schemas/catalogue'
-import { type Listed, rankedSearch } from './catalogue.search'
+import { type Listed, chunks, lockImports, rankedSearch } from './catalogue.repo'
 
 export type OperationRow = typeof labourOperations.$inferSelect
 /** An operation as lists and forms need it: without the search columns. */
 export type OperationRecord = Listed<typeof labourOperations>
+/** What the form and the import write of an operation. */
+export type OperationValues = Pick<
+  typeof labourOperations.$inferInsert,
+  'code' | 'name' | 'synonyms' | 'system' | 'vehicleGroups' | 'side' | 'bookHours' | 'category' | 'notes'
+>
 export type StepRow = typeof accessSteps.$inferSelect
-export type { Queryable }
+export type StepValues = Pick<typeof accessSteps.$inferInsert, 'code' | 'name' | 'hours'>
+export type ClockTimeValues = typeof labourClockTimes.$inferInsert
 
 export interface StepWithIncludes {
   row: StepRow
@@ -34,6 +41,8 @@ export function createLabourRepo(db: Database) {
 
   return {
     db,
+    transaction: <T>(fn: (tx: Tx) => Promise<T>) => db.transaction(fn),
+    lockImports,
 
     async operationsByCodes(workshopId: string, codes: string[]): Promise<OperationRecord[]> {
       const { searchText: _s, searchVector: _v, lookupKey: _k, ...columns } = getTableColumns(labourOperations)
@@ -136,23 +145,20 @@ export function createLabourRepo(db: Database) {
       return new Map(rows.map((r) => [r.stepId, r.n]))
     },
 
-    async findStep(workshopId: string, id: string) {
-      const [row] = await db
-        .select()
-        .from(accessSteps)
-        .where(and(eq(accessSteps.workshopId, workshopId), eq(accessSteps.id, id)))
-      return row
-    },
-
-    /** Operations whose access steps reach any of `stepCodes`, directly or through includes. */
-    async operationsUsingSteps(tx: Queryable, workshopId: string, stepIds: string[]) {
+    /**
+     * Operations whose access steps reach any of `stepIds`, directly or through includes, with what
+     * they book and their steps' codes in order, for the access-time rule.
+     */
+    async bookedOperationsUsing(tx: Queryable, workshopId: string, stepIds: string[]) {
       if (stepIds.length === 0) return []
       const l = labourOperationAccessSteps
-      return tx
-        .selectDistinct({ row: labourOperations })
+      const rows = await tx
+        .selectDistinct({ id: labourOperations.id, code: labourOperations.code, bookHours: labourOperations.bookHours })
         .from(l)
         .innerJoin(labourOperations, eq(labourOperations.id, l.operationId))
         .where(and(eq(l.workshopId, workshopId), inArray(l.accessStepId, stepIds)))
+      const stepCodes = await stepCodesOf(tx, workshopId)
+      return rows.map((r) => ({ code: r.code, bookHours: normalizeDecimal(r.bookHours), steps: stepCodes.get(r.id) ?? [] }))
     },
 
     /** Replaces each step's includes with the given codes' ids. */
@@ -181,6 +187,94 @@ export function createLabourRepo(db: Database) {
       for (const chunk of chunks(values, 5000)) await tx.insert(labourOperationAccessSteps).values(chunk)
     },
 
+    /** Inserts the operation, or updates it when `id` is given; the id, or undefined when there is no such operation. */
+    async saveOperation(tx: Queryable, workshopId: string, id: string | null, values: OperationValues): Promise<string | undefined> {
+      const o = labourOperations
+      const [row] = id
+        ? await tx
+            .update(o)
+            .set(values)
+            .where(and(eq(o.workshopId, workshopId), eq(o.id, id)))
+            .returning({ id: o.id })
+        : await tx
+            .insert(o)
+            .values({ workshopId, ...values })
+            .returning({ id: o.id })
+      return row?.id
+    },
+
+    async setOperationArchived(workshopId: string, id: string, archived: boolean): Promise<boolean> {
+      const rows = await db
+        .update(labourOperations)
+        .set({ archivedAt: archived ? new Date() : null })
+        .where(and(eq(labourOperations.workshopId, workshopId), eq(labourOperations.id, id)))
+        .returning({ id: labourOperations.id })
+      return rows.length > 0
+    },
+
+    /** Inserts new codes and overwrites existing ones, matched on the code; the id of each code written. */
+    async upsertOperations(tx: Queryable, workshopId: string, values: OperationValues[]): Promise<Map<string, string>> {
+      const ids = new Map<string, string>()
+      for (const chunk of chunks(values, 1000)) {
+        const saved = await tx
+          .insert(labourOperations)
+          .values(chunk.map((v) => ({ workshopId, ...v })))
+          .onConflictDoUpdate({
+            target: [labourOperations.workshopId, labourOperations.code],
+            set: {
+              name: sql`excluded.name`,
+              synonyms: sql`excluded.synonyms`,
+              system: sql`excluded.system`,
+              vehicleGroups: sql`excluded.vehicle_groups`,
+              side: sql`excluded.side`,
+              bookHours: sql`excluded.book_hours`,
+              category: sql`excluded.category`,
+              notes: sql`excluded.notes`,
+              updatedAt: sql`now()`,
+            },
+          })
+          .returning({ id: labourOperations.id, code: labourOperations.code })
+        for (const s of saved) ids.set(s.code, s.id)
+      }
+      return ids
+    },
+
+    /** Inserts the step, or updates it when `id` is given; the id, or undefined when there is no such step. */
+    async saveStep(tx: Queryable, workshopId: string, id: string | null, values: StepValues): Promise<string | undefined> {
+      const [row] = id
+        ? await tx
+            .update(accessSteps)
+            .set(values)
+            .where(and(eq(accessSteps.workshopId, workshopId), eq(accessSteps.id, id)))
+            .returning({ id: accessSteps.id })
+        : await tx
+            .insert(accessSteps)
+            .values({ workshopId, ...values })
+            .returning({ id: accessSteps.id })
+      return row?.id
+    },
+
+    /** Inserts new codes and overwrites existing ones, matched on the code. */
+    async upsertSteps(tx: Queryable, workshopId: string, values: StepValues[]): Promise<void> {
+      for (const chunk of chunks(values, 2000)) {
+        await tx
+          .insert(accessSteps)
+          .values(chunk.map((v) => ({ workshopId, ...v })))
+          .onConflictDoUpdate({
+            target: [accessSteps.workshopId, accessSteps.code],
+            set: { name: sql`excluded.name`, hours: sql`excluded.hours`, updatedAt: sql`now()` },
+          })
+      }
+    },
+
+    async deleteStep(workshopId: string, id: string): Promise<boolean> {
+      const rows = await db
+        .delete(accessSteps)
+        .where(and(eq(accessSteps.workshopId, workshopId), eq(accessSteps.id, id)))
+        .returning({ id: accessSteps.id })
+      return rows.length > 0
+    },
+
     async jobExists(workshopId: string, jobId: string) {
       const [row] = await db
         .select({ id: jobs.id })
@@ -189,7 +283,7 @@ export function createLabourRepo(db: Database) {
       return Boolean(row)
     },
 
-    async insertClockTime(values: typeof labourClockTimes.$inferInsert) {
+    async insertClockTime(values: ClockTimeValues) {
       const [row] = await db.insert(labourClockTimes).values(values).returning()
       if (!row) throw new Error('clock time insert returned nothing')
       return row
@@ -223,7 +317,3 @@ export function createLabourRepo(db: Database) {
 }
 
 export type LabourRepo = ReturnType<typeof createLabourRepo>
-
-export function* chunks<T>(items: T[], size: number): Generator<T[]> {
-  for (let i = 0; i < items.length; i += size) yield items.slice(i, i + size)
-}

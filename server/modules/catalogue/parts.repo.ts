@@ -1,9 +1,8 @@
 import { type SQL, and, asc, count, eq, isNotNull, isNull, sql } from 'drizzle-orm'
-import type { Database } from '../../db/client'
+import type { Database, Queryable, Tx } from '../../db/client'
 import { parts } from '../../db/schema'
 import type { PartSearchQuery } from '../../../shared/schemas/catalogue'
-import { type Listed, rankedSearch } from './catalogue.search'
-import type { Queryable } from './labour.repo'
+import { type Listed, chunks, lockImports, rankedSearch } from './catalogue.repo'
 
 export type PartRow = typeof parts.$inferSelect
 /** A part as lists and forms need it: without the search columns. */
@@ -13,6 +12,8 @@ export type PartValues = Omit<typeof parts.$inferInsert, 'workshopId'>
 export function createPartsRepo(db: Database) {
   return {
     db,
+    transaction: <T>(fn: (tx: Tx) => Promise<T>) => db.transaction(fn),
+    lockImports,
 
     async search(workshopId: string, q: PartSearchQuery): Promise<{ rows: PartRecord[]; total: number }> {
       const filters = q.archived ? isNotNull(parts.archivedAt) : isNull(parts.archivedAt)
@@ -71,22 +72,23 @@ export function createPartsRepo(db: Database) {
 
     /** Inserts new part numbers and overwrites existing ones, matched on the part number. */
     async upsert(tx: Queryable, workshopId: string, values: PartValues[]) {
-      if (values.length === 0) return
-      await tx
-        .insert(parts)
-        .values(values.map((v) => ({ workshopId, ...v })))
-        .onConflictDoUpdate({
-          target: [parts.workshopId, parts.partNumber],
-          set: {
-            description: sql`excluded.description`,
-            supplierRef: sql`excluded.supplier_ref`,
-            costMinor: sql`excluded.cost_minor`,
-            sellPriceMinor: sql`excluded.sell_price_minor`,
-            taxRate: sql`excluded.tax_rate`,
-            stockQuantity: sql`excluded.stock_quantity`,
-            updatedAt: sql`now()`,
-          },
-        })
+      for (const chunk of chunks(values, 2000)) {
+        await tx
+          .insert(parts)
+          .values(chunk.map((v) => ({ workshopId, ...v })))
+          .onConflictDoUpdate({
+            target: [parts.workshopId, parts.partNumber],
+            set: {
+              description: sql`excluded.description`,
+              supplierRef: sql`excluded.supplier_ref`,
+              costMinor: sql`excluded.cost_minor`,
+              sellPriceMinor: sql`excluded.sell_price_minor`,
+              taxRate: sql`excluded.tax_rate`,
+              stockQuantity: sql`excluded.stock_quantity`,
+              updatedAt: sql`now()`,
+            },
+          })
+      }
     },
   }
 }

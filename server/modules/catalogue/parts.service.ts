@@ -1,5 +1,6 @@
-import type { Request } from 'express'
-import { auditContextOf, recordAudit } from '../../lib/audit'
+import type { Queryable } from '../../db/client'
+import { type AuditContext, recordAudit } from '../../lib/audit'
+import { saveOrRefuseTaken } from '../../lib/db-errors'
 import { NotFoundError } from '../../lib/errors'
 import { normalizeDecimal } from '../../../shared/catalogue/decimal'
 import { sellPrice } from '../../../shared/catalogue/pricing'
@@ -8,9 +9,7 @@ import type { StaffPrincipal } from '../../../shared/schemas/auth'
 import type { ImportReport, Part, PartInput, PartSearchQuery, Pricing } from '../../../shared/schemas/catalogue'
 import type { Page } from '../../../shared/schemas/common'
 import { guardText, writeCsv } from './catalogue.csv'
-import { planImport, reportOf } from './catalogue.import'
-import { codeTaken, lockImports, refuseImport } from './catalogue.shared'
-import { chunks, type Queryable } from './labour.repo'
+import { planImport, refuseImport, reportOf } from './catalogue.import'
 import { partTable, partTemplateRow } from './parts.import'
 import type { PartRecord, PartsRepo, PartValues } from './parts.repo'
 import type { PricingRepo } from './pricing.repo'
@@ -82,12 +81,12 @@ export function createPartsService(deps: { repo: PartsRepo; pricing: PricingRepo
     get,
     async create(workshopId: string, input: PartInput): Promise<Part> {
       const price = await pricing.get(workshopId)
-      const row = await codeTaken(() => repo.insert(workshopId, valuesOf(input, price.defaultTaxRate)), taken(input.partNumber))
+      const row = await saveOrRefuseTaken(() => repo.insert(workshopId, valuesOf(input, price.defaultTaxRate)), taken(input.partNumber))
       return toPart(row, price)
     },
     async update(workshopId: string, id: string, input: PartInput): Promise<Part> {
       const price = await pricing.get(workshopId)
-      const row = await codeTaken(() => repo.update(workshopId, id, valuesOf(input, price.defaultTaxRate)), taken(input.partNumber))
+      const row = await saveOrRefuseTaken(() => repo.update(workshopId, id, valuesOf(input, price.defaultTaxRate)), taken(input.partNumber))
       if (!row) throw new NotFoundError('No such part in this workshop.')
       return toPart(row, price)
     },
@@ -102,17 +101,17 @@ export function createPartsService(deps: { repo: PartsRepo; pricing: PricingRepo
       return reportOf(p, table, false)
     },
 
-    async import(req: Request, me: StaffPrincipal, text: string): Promise<ImportReport> {
+    async import(ctx: AuditContext, me: StaffPrincipal, text: string): Promise<ImportReport> {
       const workshopId = me.workshop.id
-      const report = await db.transaction(async (tx) => {
-        await lockImports(tx, workshopId)
+      const report = await repo.transaction(async (tx) => {
+        await repo.lockImports(tx, workshopId)
         const { plan: p, table, price } = await plan(tx, workshopId, text)
         if (p.errors.length > 0) refuseImport(p.errors)
         const writes = p.rows.filter((r) => r.action !== 'keep').map((r) => valuesOf(r.input, price.defaultTaxRate))
-        for (const chunk of chunks(writes, 2000)) await repo.upsert(tx, workshopId, chunk)
+        await repo.upsert(tx, workshopId, writes)
         return reportOf(p, table, true)
       })
-      await recordAudit(db, auditContextOf(req), {
+      await recordAudit(db, ctx, {
         action: 'settings.changed',
         workshopId,
         subject: { type: 'parts', id: workshopId },

@@ -1,6 +1,5 @@
-import type { Request } from 'express'
 import type { Database } from '../../db/client'
-import { auditContextOf, recordAudit } from '../../lib/audit'
+import { type AuditContext, recordAudit } from '../../lib/audit'
 import type { StaffPrincipal } from '../../../shared/schemas/auth'
 import type { Pricing, PricingInput } from '../../../shared/schemas/catalogue'
 import type { PricingRepo } from './pricing.repo'
@@ -22,7 +21,7 @@ export function createPricingService(deps: { repo: PricingRepo; db: Database }) 
   return {
     get: (workshopId: string): Promise<Pricing> => repo.get(workshopId),
 
-    async update(req: Request, me: StaffPrincipal, input: PricingInput): Promise<Pricing> {
+    async update(ctx: AuditContext, me: StaffPrincipal, input: PricingInput): Promise<Pricing> {
       const before = await repo.get(me.workshop.id)
       await repo.save(me.workshop.id, input)
       const after = await repo.get(me.workshop.id)
@@ -30,7 +29,7 @@ export function createPricingService(deps: { repo: PricingRepo; db: Database }) 
       const now = auditView(after)
       const changed = Object.keys(now).filter((k) => was[k] !== now[k])
       if (changed.length > 0) {
-        await recordAudit(db, auditContextOf(req), {
+        await recordAudit(db, ctx, {
           action: 'settings.changed',
           workshopId: me.workshop.id,
           subject: { type: 'pricing', id: me.workshop.id },

@@ -4,6 +4,8 @@ import { customers, vehicles } from '../../db/schema'
 import type { CustomerInput, CustomerListQuery } from '../../../shared/schemas/records'
 import { likePattern } from '../../lib/db-errors'
 
+export type CustomerRow = typeof customers.$inferSelect
+
 export function createCustomersRepo(db: Database) {
   // Qualified by hand: in a one-table select drizzle writes bare column names, and inside this subquery a
   // bare "id" would be the vehicle's own id, so every customer counted 0 vehicles.

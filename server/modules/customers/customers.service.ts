@@ -1,9 +1,8 @@
-import type { customers } from '../../db/schema'
 import { deleteOrRefuse } from '../../lib/db-errors'
 import { NotFoundError } from '../../lib/errors'
 import type { Customer, CustomerInput, CustomerListQuery } from '../../../shared/schemas/records'
 import type { Page } from '../../../shared/schemas/common'
-import type { CustomersRepo } from './customers.repo'
+import type { CustomerRow, CustomersRepo } from './customers.repo'
 
 /** PUT replaces the record: an optional field left out is cleared, not kept (drizzle skips undefined). */
 const columns = (input: CustomerInput) => ({
@@ -13,7 +12,7 @@ const columns = (input: CustomerInput) => ({
   postcode: input.postcode ?? null,
 })
 
-const toCustomer = (row: typeof customers.$inferSelect, vehicleCount?: number): Customer => ({
+const toCustomer = (row: CustomerRow, vehicleCount?: number): Customer => ({
   id: row.id,
   name: row.name,
   email: row.email,

@@ -5,6 +5,13 @@ import { setJobStatus } from '../jobs/jobs.repo'
 
 type Db = Queryable
 
+export type TemplateRow = typeof checkTemplates.$inferSelect
+export type InspectionRow = typeof inspections.$inferSelect
+export type ResultRow = typeof inspectionResults.$inferSelect
+export type FindingRow = typeof findings.$inferSelect
+export type PhotoRow = typeof photos.$inferSelect
+export type PhotoValues = typeof photos.$inferInsert
+
 export function createInspectionsRepo(db: Database) {
   return {
     transaction: <T>(fn: (tx: Tx) => Promise<T>) => db.transaction(fn),
@@ -172,7 +179,7 @@ export function createInspectionsRepo(db: Database) {
         .where(and(eq(photos.workshopId, workshopId), eq(photos.id, id)))
       return row
     },
-    async insertPhotos(tx: Db, values: (typeof photos.$inferInsert)[]) {
+    async insertPhotos(tx: Db, values: PhotoValues[]) {
       return tx.insert(photos).values(values).returning()
     },
     async deletePhoto(workshopId: string, id: string) {

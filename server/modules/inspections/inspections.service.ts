@@ -1,8 +1,8 @@
-import type { checkTemplates, findings, inspectionResults, inspections, photos } from '../../db/schema'
-import { AppError, ConflictError, NotFoundError, ValidationError } from '../../lib/errors'
+import { ConflictError, NotFoundError, ValidationError } from '../../lib/errors'
 import type { ProcessedImage } from '../../lib/images'
 import type { FileStorage } from '../../lib/storage'
 import { ResultMismatchError, suggestSeverity } from '../../../shared/inspection/rules'
+import { iso } from '../../../shared/dates'
 import type { StaffPrincipal } from '../../../shared/schemas/auth'
 import type {
   CheckTemplate,
@@ -15,9 +15,9 @@ import type {
   RecordResult,
   SafetyCheck,
 } from '../../../shared/schemas/inspections'
-import type { InspectionsRepo } from './inspections.repo'
+import type { FindingRow, InspectionRow, InspectionsRepo, PhotoRow, PhotoValues, ResultRow, TemplateRow } from './inspections.repo'
 
-const toTemplate = (r: typeof checkTemplates.$inferSelect): CheckTemplate => ({
+const toTemplate = (r: TemplateRow): CheckTemplate => ({
   id: r.id,
   name: r.name,
   vehicleGroup: r.vehicleGroup,
@@ -27,7 +27,7 @@ const toTemplate = (r: typeof checkTemplates.$inferSelect): CheckTemplate => ({
   updatedAt: r.updatedAt.toISOString(),
 })
 
-const toResult = (r: typeof inspectionResults.$inferSelect): InspectionResult => ({
+const toResult = (r: ResultRow): InspectionResult => ({
   id: r.id,
   checkCode: r.checkCode,
   position: r.position,
@@ -39,7 +39,7 @@ const toResult = (r: typeof inspectionResults.$inferSelect): InspectionResult =>
   recordedBy: r.recordedBy,
 })
 
-export const toPhoto = (p: typeof photos.$inferSelect): Photo => ({
+const toPhoto = (p: PhotoRow): Photo => ({
   id: p.id,
   width: p.width,
   height: p.height,
@@ -50,7 +50,7 @@ export const toPhoto = (p: typeof photos.$inferSelect): Photo => ({
   createdAt: p.createdAt.toISOString(),
 })
 
-const toFinding = (f: typeof findings.$inferSelect, photoRows: (typeof photos.$inferSelect)[]): Finding => ({
+const toFinding = (f: FindingRow, photoRows: PhotoRow[]): Finding => ({
   id: f.id,
   jobId: f.jobId,
   inspectionId: f.inspectionId,
@@ -79,11 +79,7 @@ export function createInspectionsService(deps: { repo: InspectionsRepo; storage:
     return shapeInspection(found.inspection, found.technicianName, results)
   }
 
-  function shapeInspection(
-    i: typeof inspections.$inferSelect,
-    technicianName: string | null,
-    results: (typeof inspectionResults.$inferSelect)[],
-  ): Inspection {
+  function shapeInspection(i: InspectionRow, technicianName: string | null, results: ResultRow[]): Inspection {
     return {
       id: i.id,
       jobId: i.jobId,
@@ -96,7 +92,7 @@ export function createInspectionsService(deps: { repo: InspectionsRepo; storage:
       notes: i.notes,
       results: results.map(toResult),
       startedAt: i.startedAt.toISOString(),
-      finishedAt: i.finishedAt?.toISOString() ?? null,
+      finishedAt: iso(i.finishedAt),
     }
   }
 
@@ -325,7 +321,7 @@ export function createInspectionsService(deps: { repo: InspectionsRepo; storage:
         throw new ValidationError('Choose at least one photo.', [{ path: ['body', 'photos'], message: 'Choose at least one photo' }])
       const written: string[] = []
       try {
-        const rows: (typeof photos.$inferInsert)[] = []
+        const rows: PhotoValues[] = []
         for (const image of images) {
           const storageKey = await storage.put(image.full, image.extension)
           written.push(storageKey)
@@ -355,7 +351,7 @@ export function createInspectionsService(deps: { repo: InspectionsRepo; storage:
       const row = await repo.photo(workshopId, id)
       if (!row) throw notFound('photo')
       const data = await storage.get(variant === 'full' ? row.storageKey : row.thumbKey).catch(() => {
-        throw new AppError(404, 'photo_missing', 'This photo’s file is missing.')
+        throw new NotFoundError('This photo’s file is missing.', 'photo_missing')
       })
       return { data, contentType: variant === 'full' ? row.contentType : 'image/jpeg' }
     },

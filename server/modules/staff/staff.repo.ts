@@ -3,6 +3,8 @@ import type { Database } from '../../db/client'
 import { staffUsers } from '../../db/schema'
 import type { StaffRole } from '../../../shared/auth/policy'
 
+export type StaffRow = typeof staffUsers.$inferSelect
+
 export function createStaffRepo(db: Database) {
   return {
     list(workshopId: string) {

@@ -1,23 +1,20 @@
-import type { Request } from 'express'
 import type { Database } from '../../db/client'
-import type { staffUsers } from '../../db/schema'
-import { auditContextOf, recordAudit } from '../../lib/audit'
+import { type AuditContext, recordAudit } from '../../lib/audit'
 import { ConflictError, NotFoundError } from '../../lib/errors'
+import { iso } from '../../../shared/dates'
 import type { StaffPrincipal } from '../../../shared/schemas/auth'
 import type { InviteStaff, StaffMember } from '../../../shared/schemas/staff'
 import type { StaffRole } from '../../../shared/auth/policy'
 import type { AuthRepo } from '../auth/auth.repo'
-import type { StaffRepo } from './staff.repo'
+import type { StaffRepo, StaffRow } from './staff.repo'
 
-type Row = typeof staffUsers.$inferSelect
-
-export const toStaffMember = (row: Row): StaffMember => ({
+const toStaffMember = (row: StaffRow): StaffMember => ({
   id: row.id,
   name: row.name,
   email: row.email,
   role: row.role,
   active: row.deactivatedAt === null,
-  lastSignInAt: row.lastSignInAt?.toISOString() ?? null,
+  lastSignInAt: iso(row.lastSignInAt),
   createdAt: row.createdAt.toISOString(),
 })
 
@@ -31,7 +28,7 @@ export function createStaffService(deps: { repo: StaffRepo; authRepo: AuthRepo; 
   }
 
   /** A workshop always keeps at least one active owner, or nobody could manage it. */
-  async function keepAnOwner(me: StaffPrincipal, target: Row) {
+  async function keepAnOwner(me: StaffPrincipal, target: StaffRow) {
     if (target.role === 'owner' && (await repo.otherActiveOwners(me.workshop.id, target.id)) === 0) {
       throw new ConflictError('This is the only active owner. Make someone else an owner first.', 'last_owner')
     }
@@ -42,11 +39,11 @@ export function createStaffService(deps: { repo: StaffRepo; authRepo: AuthRepo; 
       return (await repo.list(me.workshop.id)).map(toStaffMember)
     },
 
-    async invite(req: Request, me: StaffPrincipal, input: InviteStaff) {
+    async invite(ctx: AuditContext, me: StaffPrincipal, input: InviteStaff) {
       if (await repo.emailTaken(input.email))
         throw new ConflictError('Someone already uses that e-mail address on Tickover.', 'email_taken')
       const row = await repo.insert({ workshopId: me.workshop.id, name: input.name, email: input.email, role: input.role })
-      await recordAudit(db, auditContextOf(req), {
+      await recordAudit(db, ctx, {
         action: 'staff.invited',
         workshopId: me.workshop.id,
         subject: { type: 'staff', id: row.id },
@@ -55,13 +52,13 @@ export function createStaffService(deps: { repo: StaffRepo; authRepo: AuthRepo; 
       return toStaffMember(row)
     },
 
-    async changeRole(req: Request, me: StaffPrincipal, id: string, role: StaffRole) {
+    async changeRole(ctx: AuditContext, me: StaffPrincipal, id: string, role: StaffRole) {
       const target = await mustFind(me, id)
       if (target.role === role) return toStaffMember(target)
       if (target.role === 'owner') await keepAnOwner(me, target)
       const row = await repo.update(me.workshop.id, id, { role })
       if (!row) throw new NotFoundError()
-      await recordAudit(db, auditContextOf(req), {
+      await recordAudit(db, ctx, {
         action: 'staff.role_changed',
         workshopId: me.workshop.id,
         subject: { type: 'staff', id },
@@ -70,7 +67,7 @@ export function createStaffService(deps: { repo: StaffRepo; authRepo: AuthRepo; 
       return toStaffMember(row)
     },
 
-    async deactivate(req: Request, me: StaffPrincipal, id: string) {
+    async deactivate(ctx: AuditContext, me: StaffPrincipal, id: string) {
       const target = await mustFind(me, id)
       if (target.id === me.id) throw new ConflictError('You cannot deactivate yourself.', 'self_deactivation')
       if (target.deactivatedAt) return toStaffMember(target)
@@ -78,7 +75,7 @@ export function createStaffService(deps: { repo: StaffRepo; authRepo: AuthRepo; 
       const row = await repo.update(me.workshop.id, id, { deactivatedAt: new Date() })
       if (!row) throw new NotFoundError()
       await authRepo.endSessionsOf('staff', id)
-      await recordAudit(db, auditContextOf(req), {
+      await recordAudit(db, ctx, {
         action: 'staff.deactivated',
         workshopId: me.workshop.id,
         subject: { type: 'staff', id },
@@ -86,12 +83,12 @@ export function createStaffService(deps: { repo: StaffRepo; authRepo: AuthRepo; 
       return toStaffMember(row)
     },
 
-    async reactivate(req: Request, me: StaffPrincipal, id: string) {
+    async reactivate(ctx: AuditContext, me: StaffPrincipal, id: string) {
       const target = await mustFind(me, id)
       if (!target.deactivatedAt) return toStaffMember(target)
       const row = await repo.update(me.workshop.id, id, { deactivatedAt: null })
       if (!row) throw new NotFoundError()
-      await recordAudit(db, auditContextOf(req), {
+      await recordAudit(db, ctx, {
         action: 'staff.reactivated',
         workshopId: me.workshop.id,
         subject: { type: 'staff', id },

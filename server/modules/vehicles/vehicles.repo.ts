@@ -4,6 +4,8 @@ import { customers, vehicles } from '../../db/schema'
 import type { VehicleInput, VehicleListQuery } from '../../../shared/schemas/records'
 import { likePattern } from '../../lib/db-errors'
 
+export type VehicleRow = typeof vehicles.$inferSelect
+
 export function createVehiclesRepo(db: Database) {
   const base = () =>
     db.select({ row: vehicles, customerName: customers.name }).from(vehicles).innerJoin(customers, eq(customers.id, vehicles.customerId))

@@ -1,11 +1,10 @@
-import type { vehicles } from '../../db/schema'
 import { deleteOrRefuse } from '../../lib/db-errors'
 import { NotFoundError, ValidationError } from '../../lib/errors'
 import type { Page } from '../../../shared/schemas/common'
 import type { Vehicle, VehicleInput, VehicleListQuery } from '../../../shared/schemas/records'
-import type { VehiclesRepo } from './vehicles.repo'
+import type { VehicleRow, VehiclesRepo } from './vehicles.repo'
 
-const toVehicle = (row: typeof vehicles.$inferSelect, customerName: string): Vehicle => ({
+const toVehicle = (row: VehicleRow, customerName: string): Vehicle => ({
   id: row.id,
   customerId: row.customerId,
   customerName,

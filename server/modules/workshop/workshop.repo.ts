@@ -3,6 +3,8 @@ import type { Database } from '../../db/client'
 import { workshops } from '../../db/schema'
 import type { WorkshopSettings } from '../../../shared/schemas/workshop'
 
+export type WorkshopRow = typeof workshops.$inferSelect
+
 export function createWorkshopRepo(db: Database) {
   return {
     async find(id: string) {

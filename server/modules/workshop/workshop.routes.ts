@@ -1,7 +1,8 @@
-import { WorkshopSettingsSchema, type WorkshopSettings } from '../../../shared/schemas/workshop'
+import { WorkshopSettingsSchema } from '../../../shared/schemas/workshop'
+import { auditContextOf } from '../../lib/audit'
 import { type RouteTable, staffWith } from '../../lib/route-table'
 import { staffOf } from '../../middleware/auth'
-import { validate } from '../../middleware/validate'
+import { handle } from '../../middleware/validate'
 import type { WorkshopService } from './workshop.service'
 
 export function workshopRoutes(table: RouteTable, service: WorkshopService) {
@@ -9,8 +10,12 @@ export function workshopRoutes(table: RouteTable, service: WorkshopService) {
   g.get('', staffWith('workshop:read'), async (req, res) => {
     res.json(await service.get(staffOf(req)))
   })
-  g.put('', staffWith('settings:manage'), validate({ body: WorkshopSettingsSchema }), async (req, res) => {
-    res.json(await service.update(req, staffOf(req), req.body as WorkshopSettings))
-  })
+  g.put(
+    '',
+    staffWith('settings:manage'),
+    handle({ body: WorkshopSettingsSchema }, async (req, res) => {
+      res.json(await service.update(auditContextOf(req), staffOf(req), req.body))
+    }),
+  )
   return g
 }

@@ -1,13 +1,11 @@
-import type { Request } from 'express'
 import type { Database } from '../../db/client'
-import type { workshops } from '../../db/schema'
-import { auditContextOf, recordAudit } from '../../lib/audit'
+import { type AuditContext, recordAudit } from '../../lib/audit'
 import { NotFoundError } from '../../lib/errors'
 import type { StaffPrincipal } from '../../../shared/schemas/auth'
 import type { Workshop, WorkshopSettings } from '../../../shared/schemas/workshop'
-import type { WorkshopRepo } from './workshop.repo'
+import type { WorkshopRepo, WorkshopRow } from './workshop.repo'
 
-const toWorkshop = (row: typeof workshops.$inferSelect): Workshop => ({
+const toWorkshop = (row: WorkshopRow): Workshop => ({
   id: row.id,
   name: row.name,
   addressLines: row.addressLines,
@@ -28,7 +26,7 @@ export function createWorkshopService(deps: { repo: WorkshopRepo; db: Database }
       return toWorkshop(row)
     },
 
-    async update(req: Request, me: StaffPrincipal, input: WorkshopSettings) {
+    async update(ctx: AuditContext, me: StaffPrincipal, input: WorkshopSettings) {
       const before = await this.get(me)
       const row = await repo.update(me.workshop.id, input)
       if (!row) throw new NotFoundError()
@@ -37,7 +35,7 @@ export function createWorkshopService(deps: { repo: WorkshopRepo; db: Database }
         (k) => JSON.stringify(before[k] ?? null) !== JSON.stringify(after[k] ?? null),
       )
       if (changed.length > 0) {
-        await recordAudit(db, auditContextOf(req), {
+        await recordAudit(db, ctx, {
           action: 'settings.changed',
           workshopId: me.workshop.id,
           subject: { type: 'workshop', id: me.workshop.id },

@@ -1,6 +1,6 @@
 import { type InferSelectModel, type SQL, getTableColumns, sql } from 'drizzle-orm'
 import { toSnakeCase } from 'drizzle-orm/casing'
-import type { Database } from '../../db/client'
+import type { Database, Queryable } from '../../db/client'
 import type { labourOperations, parts } from '../../db/schema'
 
 /** Words as the advisor types them: lower case, letters and digits, at most eight. */
@@ -131,4 +131,17 @@ export async function rankedSearch<T extends Searchable>(
     order by page.score desc, page.sort_name, page.id
   `)
   return { rows: result.rows.map((r) => fromRaw(t, r)), extras: result.rows.map((r) => r.extra), total: result.rows[0]?.total_matches ?? 0 }
+}
+
+/**
+ * One import at a time per workshop: two owners committing files at once would otherwise each
+ * check against a table the other is changing. Released when the transaction ends.
+ */
+export async function lockImports(tx: Queryable, workshopId: string): Promise<void> {
+  await tx.execute(sql`select pg_advisory_xact_lock(hashtextextended(${`tickover.catalogue-import:${workshopId}`}, 0))`)
+}
+
+/** Rows in batches small enough for PostgreSQL's limit of 65,535 parameters a statement. */
+export function* chunks<T>(items: T[], size: number): Generator<T[]> {
+  for (let i = 0; i < items.length; i += size) yield items.slice(i, i + size)
 }
