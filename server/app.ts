@@ -33,6 +33,7 @@ import { estimateQuestionRoutes } from './modules/portal/questions.routes'
 import { createStaffRepo } from './modules/staff/staff.repo'
 import { staffRoutes } from './modules/staff/staff.routes'
 import { createStaffService } from './modules/staff/staff.service'
+import { createSystemRepo } from './modules/system/system.repo'
 import { createSystemService } from './modules/system/system.service'
 import { systemRoutes } from './modules/system/system.routes'
 import { createWorkshopRepo } from './modules/workshop/workshop.repo'
@@ -193,7 +194,7 @@ export function createApp(deps: AppDeps): express.Express {
   const labourRepo = createLabourRepo(db)
   const labour = createLabourService({ repo: labourRepo, pricing: pricingRepo })
   const groups = [
-    systemRoutes(table, createSystemService(pool, deps.version ?? '0.0.0')),
+    systemRoutes(table, createSystemService(createSystemRepo(pool), deps.version ?? '0.0.0')),
     authRoutes(table, { passport, service: authService, limits: createAuthLimits(env, pool) }),
     staffRoutes(table, {
       service: createStaffService({ repo: createStaffRepo(db), authRepo, db }),

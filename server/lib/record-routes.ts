@@ -1,90 +1,120 @@
+import type { RequestHandler } from 'express'
 import type { z } from 'zod'
 import type { Permission } from '../../shared/auth/policy'
+import type { StaffPrincipal } from '../../shared/schemas/auth'
 import { IdParamsSchema } from '../../shared/schemas/common'
 import { staffOf } from '../middleware/auth'
 import { handle } from '../middleware/validate'
-import { type RouteTable, staffWith } from './route-table'
+import { type RouteGroup, type RouteTable, staffWith } from './route-table'
 
 export interface RecordService<Input, Query, Item> {
   list(workshopId: string, q: Query): Promise<unknown>
   get(workshopId: string, id: string): Promise<Item>
   create(workshopId: string, input: Input): Promise<Item>
   update(workshopId: string, id: string, input: Input): Promise<Item>
-  remove(workshopId: string, id: string): Promise<void>
+  /** Records that are only ever archived (the catalogue's) have no delete route. */
+  remove?(workshopId: string, id: string): Promise<void>
   setArchived?(workshopId: string, id: string, archived: boolean): Promise<Item>
 }
 
-/** The list/read/create/update/archive/delete routes every workshop record has, scoped to the caller's workshop. */
-export function recordRoutes<Input, Query, Item>(
-  table: RouteTable,
-  base: string,
-  opts: {
-    read: Permission
-    write: Permission
-    input: z.ZodType<Input>
-    listQuery: z.ZodType<Query>
-    service: RecordService<Input, Query, Item>
-  },
-) {
+const byId = { params: IdParamsSchema }
+
+/** Answers with what `run` makes of the caller's workshop and the record id in the path (`/:id`). */
+export function answerById(run: (workshopId: string, id: string, me: StaffPrincipal) => Promise<unknown>, status = 200): RequestHandler[] {
+  return handle(byId, async (req, res) => {
+    const me = staffOf(req)
+    res.status(status).json(await run(me.workshop.id, req.params.id, me))
+  })
+}
+
+/** The same, with a request body checked against `body`. */
+export function answerByIdWith<Input>(
+  body: z.ZodType<Input>,
+  run: (workshopId: string, id: string, input: Input, me: StaffPrincipal) => Promise<unknown>,
+  status = 200,
+): RequestHandler[] {
+  return handle({ ...byId, body }, async (req, res) => {
+    const me = staffOf(req)
+    res.status(status).json(await run(me.workshop.id, req.params.id, req.body, me))
+  })
+}
+
+/** Runs `run` for the caller's workshop and the record id in the path, and answers 204 with no body. */
+export function removeById(run: (workshopId: string, id: string) => Promise<void>): RequestHandler[] {
+  return handle(byId, async (req, res) => {
+    await run(staffOf(req).workshop.id, req.params.id)
+    res.status(204).end()
+  })
+}
+
+export interface RecordRouteOptions<Input, Query, Item> {
+  read: Permission
+  write: Permission
+  input: z.ZodType<Input>
+  listQuery: z.ZodType<Query>
+  service: RecordService<Input, Query, Item>
+}
+
+/**
+ * The list/read/create/update/archive/delete routes of a workshop record under `path` in `g`,
+ * scoped to the caller's workshop. Paths such as `${path}/export` go into `g` first, or `/:id` takes them.
+ */
+export function addRecordRoutes<Input, Query, Item>(g: RouteGroup, path: string, opts: RecordRouteOptions<Input, Query, Item>) {
   const { service } = opts
-  const g = table.group(base)
   const ws = (req: { user?: Express.User }) => staffOf(req).workshop.id
   const read = staffWith(opts.read)
   const write = staffWith(opts.write)
-  const byId = { params: IdParamsSchema }
 
   g.get(
-    '',
+    path,
     read,
     handle({ query: opts.listQuery }, async (req, res) => {
       res.json(await service.list(ws(req), req.query))
     }),
   )
   g.get(
-    '/:id',
+    `${path}/:id`,
     read,
-    handle(byId, async (req, res) => {
-      res.json(await service.get(ws(req), req.params.id))
-    }),
+    answerById((workshopId, id) => service.get(workshopId, id)),
   )
   g.post(
-    '',
+    path,
     write,
     handle({ body: opts.input }, async (req, res) => {
       res.status(201).json(await service.create(ws(req), req.body))
     }),
   )
   g.put(
-    '/:id',
+    `${path}/:id`,
     write,
-    handle({ ...byId, body: opts.input }, async (req, res) => {
-      res.json(await service.update(ws(req), req.params.id, req.body))
-    }),
+    answerByIdWith(opts.input, (workshopId, id, input) => service.update(workshopId, id, input)),
   )
   const setArchived = service.setArchived?.bind(service)
   if (setArchived) {
     g.post(
-      '/:id/archive',
+      `${path}/:id/archive`,
       write,
-      handle(byId, async (req, res) => {
-        res.json(await setArchived(ws(req), req.params.id, true))
-      }),
+      answerById((workshopId, id) => setArchived(workshopId, id, true)),
     )
     g.post(
-      '/:id/restore',
+      `${path}/:id/restore`,
       write,
-      handle(byId, async (req, res) => {
-        res.json(await setArchived(ws(req), req.params.id, false))
-      }),
+      answerById((workshopId, id) => setArchived(workshopId, id, false)),
     )
   }
-  g.delete(
-    '/:id',
-    write,
-    handle(byId, async (req, res) => {
-      await service.remove(ws(req), req.params.id)
-      res.status(204).end()
-    }),
-  )
+  const remove = service.remove?.bind(service)
+  if (remove) {
+    g.delete(
+      `${path}/:id`,
+      write,
+      removeById((workshopId, id) => remove(workshopId, id)),
+    )
+  }
+}
+
+/** A workshop record's routes in a group of their own at `base`. */
+export function recordRoutes<Input, Query, Item>(table: RouteTable, base: string, opts: RecordRouteOptions<Input, Query, Item>) {
+  const g = table.group(base)
+  addRecordRoutes(g, '', opts)
   return g
 }

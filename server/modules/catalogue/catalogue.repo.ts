@@ -141,6 +141,13 @@ export async function lockImports(tx: Queryable, workshopId: string): Promise<vo
   await tx.execute(sql`select pg_advisory_xact_lock(hashtextextended(${`tickover.catalogue-import:${workshopId}`}, 0))`)
 }
 
+/** An import's ON CONFLICT ... SET: each named column from the row the conflict turned away, and updatedAt now. */
+export function fromExcluded<T extends { $inferInsert: object }>(_table: T, columns: (keyof T['$inferInsert'] & string)[]) {
+  const set: Record<string, SQL> = { updatedAt: sql`now()` }
+  for (const c of columns) set[c] = sql`excluded.${sql.identifier(toSnakeCase(c))}`
+  return set
+}
+
 /** Rows in batches small enough for PostgreSQL's limit of 65,535 parameters a statement. */
 export function* chunks<T>(items: T[], size: number): Generator<T[]> {
   for (let i = 0; i < items.length; i += size) yield items.slice(i, i + size)

@@ -10,10 +10,12 @@ import {
   PartSearchQuerySchema,
   PricingInputSchema,
   TimeComparisonQuerySchema,
+  type ImportReport,
 } from '../../../shared/schemas/catalogue'
-import { IdParamsSchema } from '../../../shared/schemas/common'
-import { auditContextOf } from '../../lib/audit'
-import { type RouteTable, staffWith } from '../../lib/route-table'
+import type { StaffPrincipal } from '../../../shared/schemas/auth'
+import { addRecordRoutes, answerByIdWith, removeById } from '../../lib/record-routes'
+import { type AuditContext, auditContextOf } from '../../lib/audit'
+import { type RouteGroup, type RouteTable, staffWith } from '../../lib/route-table'
 import { staffOf } from '../../middleware/auth'
 import { handle } from '../../middleware/validate'
 import type { AccessStepsService } from './access-steps.service'
@@ -28,11 +30,44 @@ import type { PricingService } from './pricing.service'
 const csvBody = express.text({ type: 'text/csv', limit: MAX_IMPORT_BYTES })
 const CsvUploadSchema = z.string({ error: 'Send the file as CSV text (Content-Type: text/csv).' }).min(1, 'The file is empty.')
 const upload = { body: CsvUploadSchema }
-const byId = { params: IdParamsSchema }
 
 /** Excel reads a UTF-8 file as its own legacy encoding unless it starts with a byte-order mark; the import skips the mark. */
 function sendCsv(res: Response, filename: string, csv: string) {
   res.type('text/csv; charset=utf-8').attachment(filename).set('Cache-Control', 'no-store').send(`\uFEFF${csv}`)
+}
+
+/** A table's CSV files: what the owner downloads, and an import checked by a dry run before it is committed. */
+interface CsvTable {
+  export(workshopId: string): Promise<string>
+  template(workshopId: string): string | Promise<string>
+  check(workshopId: string, text: string): Promise<ImportReport>
+  commit(ctx: AuditContext, me: StaffPrincipal, text: string): Promise<ImportReport>
+}
+
+function addCsvRoutes(g: RouteGroup, name: string, csv: CsvTable) {
+  const manage = staffWith('catalogue:manage')
+  g.get(`/${name}/export`, manage, async (req, res) => {
+    sendCsv(res, `${name}.csv`, await csv.export(staffOf(req).workshop.id))
+  })
+  g.get(`/${name}/template`, manage, async (req, res) => {
+    sendCsv(res, `${name}-template.csv`, await csv.template(staffOf(req).workshop.id))
+  })
+  g.post(
+    `/${name}/import/dry-run`,
+    manage,
+    csvBody,
+    handle(upload, async (req, res) => {
+      res.json(await csv.check(staffOf(req).workshop.id, req.body))
+    }),
+  )
+  g.post(
+    `/${name}/import`,
+    manage,
+    csvBody,
+    handle(upload, async (req, res) => {
+      res.json(await csv.commit(auditContextOf(req), staffOf(req), req.body))
+    }),
+  )
 }
 
 export interface CatalogueServices {
@@ -68,35 +103,12 @@ export function catalogueRoutes(table: RouteTable, services: CatalogueServices) 
   )
 
   // Fixed paths before '/:id', which would otherwise take "export" for an id.
-  g.get(
-    '/labour-operations',
-    read,
-    handle({ query: LabourSearchQuerySchema }, async (req, res) => {
-      res.json(await labour.search(ws(req), req.query))
-    }),
-  )
-  g.get('/labour-operations/export', manage, async (req, res) => {
-    sendCsv(res, 'labour-operations.csv', await labourFiles.exportOperations(ws(req)))
+  addCsvRoutes(g, 'labour-operations', {
+    export: labourFiles.exportOperations,
+    template: labourFiles.operationsTemplate,
+    check: labourFiles.checkOperationsImport,
+    commit: labourFiles.importOperations,
   })
-  g.get('/labour-operations/template', manage, (_req, res) => {
-    sendCsv(res, 'labour-operations-template.csv', labourFiles.operationsTemplate())
-  })
-  g.post(
-    '/labour-operations/import/dry-run',
-    manage,
-    csvBody,
-    handle(upload, async (req, res) => {
-      res.json(await labourFiles.checkOperationsImport(ws(req), req.body))
-    }),
-  )
-  g.post(
-    '/labour-operations/import',
-    manage,
-    csvBody,
-    handle(upload, async (req, res) => {
-      res.json(await labourFiles.importOperations(auditContextOf(req), staffOf(req), req.body))
-    }),
-  )
   g.get(
     '/labour-operations/time-comparison',
     manage,
@@ -104,74 +116,28 @@ export function catalogueRoutes(table: RouteTable, services: CatalogueServices) 
       res.json({ items: await clockTimes.comparison(ws(req), req.query) })
     }),
   )
-  g.post(
-    '/labour-operations',
-    manage,
-    handle({ body: LabourOperationInputSchema }, async (req, res) => {
-      res.status(201).json(await operations.create(ws(req), req.body))
-    }),
-  )
-  g.get(
-    '/labour-operations/:id',
-    read,
-    handle(byId, async (req, res) => {
-      res.json(await labour.get(ws(req), req.params.id))
-    }),
-  )
-  g.put(
-    '/labour-operations/:id',
-    manage,
-    handle({ ...byId, body: LabourOperationInputSchema }, async (req, res) => {
-      res.json(await operations.update(ws(req), req.params.id, req.body))
-    }),
-  )
-  g.post(
-    '/labour-operations/:id/archive',
-    manage,
-    handle(byId, async (req, res) => {
-      res.json(await operations.setArchived(ws(req), req.params.id, true))
-    }),
-  )
-  g.post(
-    '/labour-operations/:id/restore',
-    manage,
-    handle(byId, async (req, res) => {
-      res.json(await operations.setArchived(ws(req), req.params.id, false))
-    }),
-  )
+  addRecordRoutes(g, '/labour-operations', {
+    read: 'estimates:write',
+    write: 'catalogue:manage',
+    input: LabourOperationInputSchema,
+    listQuery: LabourSearchQuerySchema,
+    service: { list: labour.search, get: labour.get, ...operations },
+  })
   g.post(
     '/labour-operations/:id/clock-times',
     staffWith('inspections:write'),
-    handle({ ...byId, body: ClockTimeInputSchema }, async (req, res) => {
-      res.status(201).json(await clockTimes.record(staffOf(req), req.params.id, req.body))
-    }),
+    answerByIdWith(ClockTimeInputSchema, (_workshopId, id, input, me) => clockTimes.record(me, id, input), 201),
   )
 
   g.get('/access-steps', read, async (req, res) => {
     res.json({ items: await labour.listSteps(ws(req)) })
   })
-  g.get('/access-steps/export', manage, async (req, res) => {
-    sendCsv(res, 'access-steps.csv', await labourFiles.exportSteps(ws(req)))
+  addCsvRoutes(g, 'access-steps', {
+    export: labourFiles.exportSteps,
+    template: labourFiles.stepsTemplate,
+    check: labourFiles.checkStepsImport,
+    commit: labourFiles.importSteps,
   })
-  g.get('/access-steps/template', manage, (_req, res) => {
-    sendCsv(res, 'access-steps-template.csv', labourFiles.stepsTemplate())
-  })
-  g.post(
-    '/access-steps/import/dry-run',
-    manage,
-    csvBody,
-    handle(upload, async (req, res) => {
-      res.json(await labourFiles.checkStepsImport(ws(req), req.body))
-    }),
-  )
-  g.post(
-    '/access-steps/import',
-    manage,
-    csvBody,
-    handle(upload, async (req, res) => {
-      res.json(await labourFiles.importSteps(auditContextOf(req), staffOf(req), req.body))
-    }),
-  )
   g.post(
     '/access-steps',
     manage,
@@ -182,83 +148,22 @@ export function catalogueRoutes(table: RouteTable, services: CatalogueServices) 
   g.put(
     '/access-steps/:id',
     manage,
-    handle({ ...byId, body: AccessStepInputSchema }, async (req, res) => {
-      res.json(await steps.update(ws(req), req.params.id, req.body))
-    }),
+    answerByIdWith(AccessStepInputSchema, (workshopId, id, input) => steps.update(workshopId, id, input)),
   )
   g.delete(
     '/access-steps/:id',
     manage,
-    handle(byId, async (req, res) => {
-      await steps.remove(ws(req), req.params.id)
-      res.status(204).end()
-    }),
+    removeById((workshopId, id) => steps.remove(workshopId, id)),
   )
 
-  g.get(
-    '/parts',
-    read,
-    handle({ query: PartSearchQuerySchema }, async (req, res) => {
-      res.json(await parts.search(ws(req), req.query))
-    }),
-  )
-  g.get('/parts/export', manage, async (req, res) => {
-    sendCsv(res, 'parts.csv', await parts.export(ws(req)))
+  addCsvRoutes(g, 'parts', { export: parts.export, template: parts.template, check: parts.checkImport, commit: parts.import })
+  addRecordRoutes(g, '/parts', {
+    read: 'estimates:write',
+    write: 'catalogue:manage',
+    input: PartInputSchema,
+    listQuery: PartSearchQuerySchema,
+    service: { ...parts, list: parts.search },
   })
-  g.get('/parts/template', manage, async (req, res) => {
-    sendCsv(res, 'parts-template.csv', await parts.template(ws(req)))
-  })
-  g.post(
-    '/parts/import/dry-run',
-    manage,
-    csvBody,
-    handle(upload, async (req, res) => {
-      res.json(await parts.checkImport(ws(req), req.body))
-    }),
-  )
-  g.post(
-    '/parts/import',
-    manage,
-    csvBody,
-    handle(upload, async (req, res) => {
-      res.json(await parts.import(auditContextOf(req), staffOf(req), req.body))
-    }),
-  )
-  g.post(
-    '/parts',
-    manage,
-    handle({ body: PartInputSchema }, async (req, res) => {
-      res.status(201).json(await parts.create(ws(req), req.body))
-    }),
-  )
-  g.get(
-    '/parts/:id',
-    read,
-    handle(byId, async (req, res) => {
-      res.json(await parts.get(ws(req), req.params.id))
-    }),
-  )
-  g.put(
-    '/parts/:id',
-    manage,
-    handle({ ...byId, body: PartInputSchema }, async (req, res) => {
-      res.json(await parts.update(ws(req), req.params.id, req.body))
-    }),
-  )
-  g.post(
-    '/parts/:id/archive',
-    manage,
-    handle(byId, async (req, res) => {
-      res.json(await parts.setArchived(ws(req), req.params.id, true))
-    }),
-  )
-  g.post(
-    '/parts/:id/restore',
-    manage,
-    handle(byId, async (req, res) => {
-      res.json(await parts.setArchived(ws(req), req.params.id, false))
-    }),
-  )
 
   return g
 }

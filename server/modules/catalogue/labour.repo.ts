@@ -4,7 +4,7 @@ import type { Database, Queryable, Tx } from '../../db/client'
 import { accessStepIncludes, accessSteps, jobs, labourClockTimes, labourOperationAccessSteps, labourOperations } from '../../db/schema'
 import { normalizeDecimal } from '../../../shared/catalogue/decimal'
 import type { LabourSearchQuery, TimeComparisonQuery } from '../../../shared/schemas/catalogue'
-import { type Listed, chunks, lockImports, rankedSearch } from './catalogue.repo'
+import { type Listed, chunks, fromExcluded, lockImports, rankedSearch } from './catalogue.repo'
 
 export type OperationRow = typeof labourOperations.$inferSelect
 /** An operation as lists and forms need it: without the search columns. */
@@ -221,17 +221,7 @@ export function createLabourRepo(db: Database) {
           .values(chunk.map((v) => ({ workshopId, ...v })))
           .onConflictDoUpdate({
             target: [labourOperations.workshopId, labourOperations.code],
-            set: {
-              name: sql`excluded.name`,
-              synonyms: sql`excluded.synonyms`,
-              system: sql`excluded.system`,
-              vehicleGroups: sql`excluded.vehicle_groups`,
-              side: sql`excluded.side`,
-              bookHours: sql`excluded.book_hours`,
-              category: sql`excluded.category`,
-              notes: sql`excluded.notes`,
-              updatedAt: sql`now()`,
-            },
+            set: fromExcluded(labourOperations, ['name', 'synonyms', 'system', 'vehicleGroups', 'side', 'bookHours', 'category', 'notes']),
           })
           .returning({ id: labourOperations.id, code: labourOperations.code })
         for (const s of saved) ids.set(s.code, s.id)
@@ -262,7 +252,7 @@ export function createLabourRepo(db: Database) {
           .values(chunk.map((v) => ({ workshopId, ...v })))
           .onConflictDoUpdate({
             target: [accessSteps.workshopId, accessSteps.code],
-            set: { name: sql`excluded.name`, hours: sql`excluded.hours`, updatedAt: sql`now()` },
+            set: fromExcluded(accessSteps, ['name', 'hours']),
           })
       }
     },

@@ -5,7 +5,7 @@ import { labourPrice } from '../../../shared/catalogue/pricing'
 import type { AccessStep, LabourOperation, LabourSearchQuery, Pricing } from '../../../shared/schemas/catalogue'
 import type { Page } from '../../../shared/schemas/common'
 import type { LabourRepo, OperationRecord } from './labour.repo'
-import { type Graph, graphOf } from './labour.rules'
+import { type Graph, graphOf, inputOf } from './labour.rules'
 import type { PricingRepo } from './pricing.repo'
 
 export const noSuchOperation = () => new NotFoundError('No such labour operation in this workshop.')
@@ -14,15 +14,8 @@ function toOperation(row: OperationRecord, stepCodes: string[], graph: Graph, pr
   const rateMinor = price.rates[row.category]
   const bookHours = normalizeDecimal(row.bookHours)
   return {
+    ...inputOf(row, stepCodes),
     id: row.id,
-    code: row.code,
-    name: row.name,
-    synonyms: row.synonyms,
-    system: row.system,
-    vehicleGroups: row.vehicleGroups,
-    side: row.side,
-    bookHours,
-    category: row.category,
     notes: row.notes,
     accessSteps: stepCodes.flatMap((code) => {
       const s = graph.get(code)

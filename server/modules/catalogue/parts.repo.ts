@@ -2,7 +2,7 @@ import { type SQL, and, asc, count, eq, isNotNull, isNull, sql } from 'drizzle-o
 import type { Database, Queryable, Tx } from '../../db/client'
 import { parts } from '../../db/schema'
 import type { PartSearchQuery } from '../../../shared/schemas/catalogue'
-import { type Listed, chunks, lockImports, rankedSearch } from './catalogue.repo'
+import { type Listed, chunks, fromExcluded, lockImports, rankedSearch } from './catalogue.repo'
 
 export type PartRow = typeof parts.$inferSelect
 /** A part as lists and forms need it: without the search columns. */
@@ -78,15 +78,7 @@ export function createPartsRepo(db: Database) {
           .values(chunk.map((v) => ({ workshopId, ...v })))
           .onConflictDoUpdate({
             target: [parts.workshopId, parts.partNumber],
-            set: {
-              description: sql`excluded.description`,
-              supplierRef: sql`excluded.supplier_ref`,
-              costMinor: sql`excluded.cost_minor`,
-              sellPriceMinor: sql`excluded.sell_price_minor`,
-              taxRate: sql`excluded.tax_rate`,
-              stockQuantity: sql`excluded.stock_quantity`,
-              updatedAt: sql`now()`,
-            },
+            set: fromExcluded(parts, ['description', 'supplierRef', 'costMinor', 'sellPriceMinor', 'taxRate', 'stockQuantity']),
           })
       }
     },

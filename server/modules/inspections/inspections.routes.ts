@@ -9,6 +9,7 @@ import {
   StartInspectionSchema,
 } from '../../../shared/schemas/inspections'
 import { PHOTO_MAX_BYTES, type ProcessedImage, processPhoto } from '../../lib/images'
+import { answerById, answerByIdWith, removeById } from '../../lib/record-routes'
 import { type RouteTable, staffWith } from '../../lib/route-table'
 import { staffOf } from '../../middleware/auth'
 import { handle } from '../../middleware/validate'
@@ -33,39 +34,29 @@ export function inspectionsRoutes(table: RouteTable, service: InspectionsService
   templates.get(
     '/:id',
     read,
-    handle(byId, async (req, res) => {
-      res.json(await service.template(ws(req), req.params.id))
-    }),
+    answerById((workshopId, id) => service.template(workshopId, id)),
   )
   templates.post(
     '/:id/copy',
     manage,
-    handle({ ...byId, body: CopyTemplateSchema }, async (req, res) => {
-      res.status(201).json(await service.copyTemplate(ws(req), req.params.id, req.body.name))
-    }),
+    answerByIdWith(CopyTemplateSchema, (workshopId, id, input) => service.copyTemplate(workshopId, id, input.name), 201),
   )
   templates.put(
     '/:id',
     manage,
-    handle({ ...byId, body: CheckTemplateInputSchema }, async (req, res) => {
-      res.json(await service.updateTemplate(ws(req), req.params.id, req.body))
-    }),
+    answerByIdWith(CheckTemplateInputSchema, (workshopId, id, input) => service.updateTemplate(workshopId, id, input)),
   )
   templates.post(
     '/:id/archive',
     manage,
-    handle(byId, async (req, res) => {
-      res.json(await service.archiveTemplate(ws(req), req.params.id))
-    }),
+    answerById((workshopId, id) => service.archiveTemplate(workshopId, id)),
   )
 
   const jobScoped = table.group('/jobs')
   jobScoped.get(
     '/:id/inspections',
     read,
-    handle(byId, async (req, res) => {
-      res.json({ items: await service.inspectionsOfJob(ws(req), req.params.id) })
-    }),
+    answerById(async (workshopId, id) => ({ items: await service.inspectionsOfJob(workshopId, id) })),
   )
   jobScoped.post(
     '/:id/inspections',
@@ -78,84 +69,61 @@ export function inspectionsRoutes(table: RouteTable, service: InspectionsService
   jobScoped.get(
     '/:id/findings',
     read,
-    handle(byId, async (req, res) => {
-      res.json({ items: await service.findingsOfJob(ws(req), req.params.id) })
-    }),
+    answerById(async (workshopId, id) => ({ items: await service.findingsOfJob(workshopId, id) })),
   )
   jobScoped.post(
     '/:id/findings',
     writeFindings,
-    handle({ ...byId, body: FindingInputSchema }, async (req, res) => {
-      res.status(201).json(await service.addFinding(staffOf(req), req.params.id, req.body))
-    }),
+    answerByIdWith(FindingInputSchema, (_workshopId, id, input, me) => service.addFinding(me, id, input), 201),
   )
 
   const inspections = table.group('/inspections')
   inspections.get(
     '/:id',
     read,
-    handle(byId, async (req, res) => {
-      res.json(await service.get(ws(req), req.params.id))
-    }),
+    answerById((workshopId, id) => service.get(workshopId, id)),
   )
   inspections.put(
     '/:id/safety',
     inspect,
-    handle({ ...byId, body: SafetyCheckSchema }, async (req, res) => {
-      res.json(await service.recordSafety(ws(req), req.params.id, req.body))
-    }),
+    answerByIdWith(SafetyCheckSchema, (workshopId, id, input) => service.recordSafety(workshopId, id, input)),
   )
   inspections.put(
     '/:id/results',
     inspect,
-    handle({ ...byId, body: RecordResultSchema }, async (req, res) => {
-      res.json(await service.recordResult(staffOf(req), req.params.id, req.body))
-    }),
+    answerByIdWith(RecordResultSchema, (_workshopId, id, input, me) => service.recordResult(me, id, input)),
   )
   inspections.put(
     '/:id/notes',
     inspect,
-    handle({ ...byId, body: NotesSchema }, async (req, res) => {
-      res.json(await service.saveNotes(ws(req), req.params.id, req.body.notes))
-    }),
+    answerByIdWith(NotesSchema, (workshopId, id, input) => service.saveNotes(workshopId, id, input.notes)),
   )
   inspections.post(
     '/:id/finish',
     inspect,
-    handle(byId, async (req, res) => {
-      res.json(await service.finish(ws(req), req.params.id))
-    }),
+    answerById((workshopId, id) => service.finish(workshopId, id)),
   )
 
   const findingsGroup = table.group('/findings')
   findingsGroup.get(
     '/:id',
     read,
-    handle(byId, async (req, res) => {
-      res.json(await service.finding(ws(req), req.params.id))
-    }),
+    answerById((workshopId, id) => service.finding(workshopId, id)),
   )
   findingsGroup.put(
     '/:id',
     writeFindings,
-    handle({ ...byId, body: FindingInputSchema }, async (req, res) => {
-      res.json(await service.updateFinding(ws(req), req.params.id, req.body))
-    }),
+    answerByIdWith(FindingInputSchema, (workshopId, id, input) => service.updateFinding(workshopId, id, input)),
   )
   findingsGroup.post(
     '/:id/review',
     staffWith('estimates:write'),
-    handle(byId, async (req, res) => {
-      res.json(await service.review(staffOf(req), req.params.id))
-    }),
+    answerById((_workshopId, id, me) => service.review(me, id)),
   )
   findingsGroup.delete(
     '/:id',
     writeFindings,
-    handle(byId, async (req, res) => {
-      await service.removeFinding(ws(req), req.params.id)
-      res.status(204).end()
-    }),
+    removeById((workshopId, id) => service.removeFinding(workshopId, id)),
   )
   // The id is checked before multer reads the upload: a wrong address is refused without taking in the files.
   findingsGroup.post(
@@ -190,10 +158,7 @@ export function inspectionsRoutes(table: RouteTable, service: InspectionsService
   photos.delete(
     '/:id',
     writeFindings,
-    handle(byId, async (req, res) => {
-      await service.removePhoto(ws(req), req.params.id)
-      res.status(204).end()
-    }),
+    removeById((workshopId, id) => service.removePhoto(workshopId, id)),
   )
 
   return [templates, jobScoped, inspections, findingsGroup, photos]
