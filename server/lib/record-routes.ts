@@ -4,6 +4,7 @@ import type { Permission } from '../../shared/auth/policy'
 import type { StaffPrincipal } from '../../shared/schemas/auth'
 import { IdParamsSchema } from '../../shared/schemas/common'
 import { staffOf } from '../middleware/auth'
+import { type AuditContext, auditContextOf } from './audit'
 import { handle } from '../middleware/validate'
 import { type RouteGroup, type RouteTable, staffWith } from './route-table'
 
@@ -19,30 +20,40 @@ export interface RecordService<Input, Query, Item> {
 
 const byId = { params: IdParamsSchema }
 
-/** Answers with what `run` makes of the caller's workshop and the record id in the path (`/:id`). */
-export function answerById(run: (workshopId: string, id: string, me: StaffPrincipal) => Promise<unknown>, status = 200): RequestHandler[] {
+/** What a route about one record hands its service call: who asks, for which workshop, about which record, with what. */
+export interface RecordCall<Input = undefined> {
+  workshopId: string
+  id: string
+  input: Input
+  me: StaffPrincipal
+  ctx: AuditContext
+}
+
+type Run<Input, Out> = (call: RecordCall<Input>) => Promise<Out>
+
+function callOf<Input>(req: Parameters<typeof auditContextOf>[0], id: string, input: Input): RecordCall<Input> {
+  const me = staffOf(req)
+  return { workshopId: me.workshop.id, id, input, me, ctx: auditContextOf(req) }
+}
+
+/** Answers with what `run` makes of the record id in the path (`/:id`). */
+export function answerById(run: Run<undefined, unknown>, status = 200): RequestHandler[] {
   return handle(byId, async (req, res) => {
-    const me = staffOf(req)
-    res.status(status).json(await run(me.workshop.id, req.params.id, me))
+    res.status(status).json(await run(callOf(req, req.params.id, undefined)))
   })
 }
 
 /** The same, with a request body checked against `body`. */
-export function answerByIdWith<Input>(
-  body: z.ZodType<Input>,
-  run: (workshopId: string, id: string, input: Input, me: StaffPrincipal) => Promise<unknown>,
-  status = 200,
-): RequestHandler[] {
+export function answerByIdWith<Input>(body: z.ZodType<Input>, run: Run<Input, unknown>, status = 200): RequestHandler[] {
   return handle({ ...byId, body }, async (req, res) => {
-    const me = staffOf(req)
-    res.status(status).json(await run(me.workshop.id, req.params.id, req.body, me))
+    res.status(status).json(await run(callOf(req, req.params.id, req.body)))
   })
 }
 
-/** Runs `run` for the caller's workshop and the record id in the path, and answers 204 with no body. */
-export function removeById(run: (workshopId: string, id: string) => Promise<void>): RequestHandler[] {
+/** Runs `run` for the record id in the path and answers 204 with no body. */
+export function removeById(run: Run<undefined, void>): RequestHandler[] {
   return handle(byId, async (req, res) => {
-    await run(staffOf(req).workshop.id, req.params.id)
+    await run(callOf(req, req.params.id, undefined))
     res.status(204).end()
   })
 }
@@ -75,7 +86,7 @@ export function addRecordRoutes<Input, Query, Item>(g: RouteGroup, path: string,
   g.get(
     `${path}/:id`,
     read,
-    answerById((workshopId, id) => service.get(workshopId, id)),
+    answerById(({ workshopId, id }) => service.get(workshopId, id)),
   )
   g.post(
     path,
@@ -87,19 +98,19 @@ export function addRecordRoutes<Input, Query, Item>(g: RouteGroup, path: string,
   g.put(
     `${path}/:id`,
     write,
-    answerByIdWith(opts.input, (workshopId, id, input) => service.update(workshopId, id, input)),
+    answerByIdWith(opts.input, ({ workshopId, id, input }) => service.update(workshopId, id, input)),
   )
   const setArchived = service.setArchived?.bind(service)
   if (setArchived) {
     g.post(
       `${path}/:id/archive`,
       write,
-      answerById((workshopId, id) => setArchived(workshopId, id, true)),
+      answerById(({ workshopId, id }) => setArchived(workshopId, id, true)),
     )
     g.post(
       `${path}/:id/restore`,
       write,
-      answerById((workshopId, id) => setArchived(workshopId, id, false)),
+      answerById(({ workshopId, id }) => setArchived(workshopId, id, false)),
     )
   }
   const remove = service.remove?.bind(service)
@@ -107,7 +118,7 @@ export function addRecordRoutes<Input, Query, Item>(g: RouteGroup, path: string,
     g.delete(
       `${path}/:id`,
       write,
-      removeById((workshopId, id) => remove(workshopId, id)),
+      removeById(({ workshopId, id }) => remove(workshopId, id)),
     )
   }
 }

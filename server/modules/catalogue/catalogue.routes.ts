@@ -126,7 +126,7 @@ export function catalogueRoutes(table: RouteTable, services: CatalogueServices) 
   g.post(
     '/labour-operations/:id/clock-times',
     staffWith('inspections:write'),
-    answerByIdWith(ClockTimeInputSchema, (_workshopId, id, input, me) => clockTimes.record(me, id, input), 201),
+    answerByIdWith(ClockTimeInputSchema, ({ id, input, me }) => clockTimes.record(me, id, input), 201),
   )
 
   g.get('/access-steps', read, async (req, res) => {
@@ -148,12 +148,12 @@ export function catalogueRoutes(table: RouteTable, services: CatalogueServices) 
   g.put(
     '/access-steps/:id',
     manage,
-    answerByIdWith(AccessStepInputSchema, (workshopId, id, input) => steps.update(workshopId, id, input)),
+    answerByIdWith(AccessStepInputSchema, ({ workshopId, id, input }) => steps.update(workshopId, id, input)),
   )
   g.delete(
     '/access-steps/:id',
     manage,
-    removeById((workshopId, id) => steps.remove(workshopId, id)),
+    removeById(({ workshopId, id }) => steps.remove(workshopId, id)),
   )
 
   addCsvRoutes(g, 'parts', { export: parts.export, template: parts.template, check: parts.checkImport, commit: parts.import })

@@ -34,29 +34,29 @@ export function inspectionsRoutes(table: RouteTable, service: InspectionsService
   templates.get(
     '/:id',
     read,
-    answerById((workshopId, id) => service.template(workshopId, id)),
+    answerById(({ workshopId, id }) => service.template(workshopId, id)),
   )
   templates.post(
     '/:id/copy',
     manage,
-    answerByIdWith(CopyTemplateSchema, (workshopId, id, input) => service.copyTemplate(workshopId, id, input.name), 201),
+    answerByIdWith(CopyTemplateSchema, ({ workshopId, id, input }) => service.copyTemplate(workshopId, id, input.name), 201),
   )
   templates.put(
     '/:id',
     manage,
-    answerByIdWith(CheckTemplateInputSchema, (workshopId, id, input) => service.updateTemplate(workshopId, id, input)),
+    answerByIdWith(CheckTemplateInputSchema, ({ workshopId, id, input }) => service.updateTemplate(workshopId, id, input)),
   )
   templates.post(
     '/:id/archive',
     manage,
-    answerById((workshopId, id) => service.archiveTemplate(workshopId, id)),
+    answerById(({ workshopId, id }) => service.archiveTemplate(workshopId, id)),
   )
 
   const jobScoped = table.group('/jobs')
   jobScoped.get(
     '/:id/inspections',
     read,
-    answerById(async (workshopId, id) => ({ items: await service.inspectionsOfJob(workshopId, id) })),
+    answerById(async ({ workshopId, id }) => ({ items: await service.inspectionsOfJob(workshopId, id) })),
   )
   jobScoped.post(
     '/:id/inspections',
@@ -69,61 +69,61 @@ export function inspectionsRoutes(table: RouteTable, service: InspectionsService
   jobScoped.get(
     '/:id/findings',
     read,
-    answerById(async (workshopId, id) => ({ items: await service.findingsOfJob(workshopId, id) })),
+    answerById(async ({ workshopId, id }) => ({ items: await service.findingsOfJob(workshopId, id) })),
   )
   jobScoped.post(
     '/:id/findings',
     writeFindings,
-    answerByIdWith(FindingInputSchema, (_workshopId, id, input, me) => service.addFinding(me, id, input), 201),
+    answerByIdWith(FindingInputSchema, ({ id, input, me }) => service.addFinding(me, id, input), 201),
   )
 
   const inspections = table.group('/inspections')
   inspections.get(
     '/:id',
     read,
-    answerById((workshopId, id) => service.get(workshopId, id)),
+    answerById(({ workshopId, id }) => service.get(workshopId, id)),
   )
   inspections.put(
     '/:id/safety',
     inspect,
-    answerByIdWith(SafetyCheckSchema, (workshopId, id, input) => service.recordSafety(workshopId, id, input)),
+    answerByIdWith(SafetyCheckSchema, ({ workshopId, id, input }) => service.recordSafety(workshopId, id, input)),
   )
   inspections.put(
     '/:id/results',
     inspect,
-    answerByIdWith(RecordResultSchema, (_workshopId, id, input, me) => service.recordResult(me, id, input)),
+    answerByIdWith(RecordResultSchema, ({ id, input, me }) => service.recordResult(me, id, input)),
   )
   inspections.put(
     '/:id/notes',
     inspect,
-    answerByIdWith(NotesSchema, (workshopId, id, input) => service.saveNotes(workshopId, id, input.notes)),
+    answerByIdWith(NotesSchema, ({ workshopId, id, input }) => service.saveNotes(workshopId, id, input.notes)),
   )
   inspections.post(
     '/:id/finish',
     inspect,
-    answerById((workshopId, id) => service.finish(workshopId, id)),
+    answerById(({ workshopId, id }) => service.finish(workshopId, id)),
   )
 
   const findingsGroup = table.group('/findings')
   findingsGroup.get(
     '/:id',
     read,
-    answerById((workshopId, id) => service.finding(workshopId, id)),
+    answerById(({ workshopId, id }) => service.finding(workshopId, id)),
   )
   findingsGroup.put(
     '/:id',
     writeFindings,
-    answerByIdWith(FindingInputSchema, (workshopId, id, input) => service.updateFinding(workshopId, id, input)),
+    answerByIdWith(FindingInputSchema, ({ workshopId, id, input }) => service.updateFinding(workshopId, id, input)),
   )
   findingsGroup.post(
     '/:id/review',
     staffWith('estimates:write'),
-    answerById((_workshopId, id, me) => service.review(me, id)),
+    answerById(({ id, me }) => service.review(me, id)),
   )
   findingsGroup.delete(
     '/:id',
     writeFindings,
-    removeById((workshopId, id) => service.removeFinding(workshopId, id)),
+    removeById(({ workshopId, id }) => service.removeFinding(workshopId, id)),
   )
   // The id is checked before multer reads the upload: a wrong address is refused without taking in the files.
   findingsGroup.post(
@@ -158,7 +158,7 @@ export function inspectionsRoutes(table: RouteTable, service: InspectionsService
   photos.delete(
     '/:id',
     writeFindings,
-    removeById((workshopId, id) => service.removePhoto(workshopId, id)),
+    removeById(({ workshopId, id }) => service.removePhoto(workshopId, id)),
   )
 
   return [templates, jobScoped, inspections, findingsGroup, photos]

@@ -1,6 +1,6 @@
-import { IdParamsSchema } from '../../../shared/schemas/common'
 import { ChangeRoleSchema, InviteStaffSchema } from '../../../shared/schemas/staff'
 import { auditContextOf } from '../../lib/audit'
+import { answerById, answerByIdWith } from '../../lib/record-routes'
 import { type RouteTable, staffWith } from '../../lib/route-table'
 import { staffOf } from '../../middleware/auth'
 import { handle } from '../../middleware/validate'
@@ -11,7 +11,6 @@ export function staffRoutes(table: RouteTable, deps: { service: StaffService; se
   const { service } = deps
   const g = table.group('/staff')
   const manage = staffWith('staff:manage')
-  const byId = { params: IdParamsSchema }
 
   g.get('', staffWith('staff:read'), async (req, res) => {
     res.json({ items: await service.list(staffOf(req)) })
@@ -29,25 +28,17 @@ export function staffRoutes(table: RouteTable, deps: { service: StaffService; se
   g.patch(
     '/:id/role',
     manage,
-    handle({ ...byId, body: ChangeRoleSchema }, async (req, res) => {
-      res.json(await service.changeRole(auditContextOf(req), staffOf(req), req.params.id, req.body.role))
-    }),
+    answerByIdWith(ChangeRoleSchema, ({ id, input, me, ctx }) => service.changeRole(ctx, me, id, input.role)),
   )
-
   g.post(
     '/:id/deactivate',
     manage,
-    handle(byId, async (req, res) => {
-      res.json(await service.deactivate(auditContextOf(req), staffOf(req), req.params.id))
-    }),
+    answerById(({ id, me, ctx }) => service.deactivate(ctx, me, id)),
   )
-
   g.post(
     '/:id/reactivate',
     manage,
-    handle(byId, async (req, res) => {
-      res.json(await service.reactivate(auditContextOf(req), staffOf(req), req.params.id))
-    }),
+    answerById(({ id, me, ctx }) => service.reactivate(ctx, me, id)),
   )
 
   return g
