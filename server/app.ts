@@ -29,6 +29,9 @@ import { portalRoutes } from './modules/portal/portal.routes'
 import { noReferrer, portalEstimateRoutes } from './modules/portal/portal-estimates.routes'
 import { createPortalRepo } from './modules/portal/portal.repo'
 import { createPortalService } from './modules/portal/portal.service'
+import { createPortalDecisionsService } from './modules/portal/portal-decisions.service'
+import { createPortalLinksService } from './modules/portal/portal-links.service'
+import { createPortalQuestionsService } from './modules/portal/portal-questions.service'
 import { estimateQuestionRoutes } from './modules/portal/questions.routes'
 import { createStaffRepo } from './modules/staff/staff.repo'
 import { staffRoutes } from './modules/staff/staff.routes'
@@ -41,8 +44,12 @@ import { workshopRoutes } from './modules/workshop/workshop.routes'
 import { createWorkshopService } from './modules/workshop/workshop.service'
 import { recordRoutes } from './lib/record-routes'
 import { createStripeClient } from './lib/stripe'
-import { createDepositsService } from './modules/payments/deposits.service'
+import { createDepositCheckoutService } from './modules/payments/deposit-checkout.service'
+import { createDepositRefundService } from './modules/payments/deposit-refund.service'
+import { createDepositWebhookService } from './modules/payments/deposit-webhook.service'
+import { createDepositsRepo } from './modules/payments/deposits.repo'
 import { paymentsRoutes, paymentsWebhookRoutes } from './modules/payments/payments.routes'
+import { renderVersionPdf } from './modules/estimates/estimate-document'
 import { type FileStorage, createLocalStorage } from './lib/storage'
 import { type LiveHub, createLiveHub } from './lib/live-hub'
 import { liveRoutes } from './modules/live/live.routes'
@@ -157,26 +164,17 @@ export function createApp(deps: AppDeps): express.Express {
     authRepo.loadPrincipal(stored.kind, stored.id).then((p: Principal | undefined) => done(null, p ?? false), done)
   })
 
-  const deposits = createDepositsService({
-    db,
-    stripe: deps.stripe ?? createStripeClient({ secretKey: env.STRIPE_SECRET_KEY, apiBase: env.STRIPE_API_BASE }),
-    env,
-    logger,
-    outbox: deps.outbox,
-  })
+  const stripe = deps.stripe ?? createStripeClient({ secretKey: env.STRIPE_SECRET_KEY, apiBase: env.STRIPE_API_BASE })
+  const depositsRepo = createDepositsRepo(db)
   const storage = deps.storage ?? createLocalStorage(env.UPLOAD_DIR)
-  const portalService = createPortalService({
-    repo: createPortalRepo(db),
-    outbox: deps.outbox,
-    deposits,
-    storage,
-    env,
-    logger,
-    loadCustomer: (id) => authRepo.loadPrincipal('customer', id),
-  })
+  const portalRepo = createPortalRepo(db)
+  const portalQuestions = createPortalQuestionsService({ repo: portalRepo, outbox: deps.outbox, env })
   const api = express.Router()
   // Before the JSON parser, sessions and the CSRF check: the webhook is verified on its raw bytes.
-  const paymentsWebhook = paymentsWebhookRoutes(table, deposits)
+  const paymentsWebhook = paymentsWebhookRoutes(
+    table,
+    createDepositWebhookService({ repo: depositsRepo, stripe, env, logger, outbox: deps.outbox }),
+  )
   api.use(paymentsWebhook.base, paymentsWebhook.router)
   api.use(express.json({ limit: '1mb' }))
   api.use(createSessionMiddleware(env, pool))
@@ -202,9 +200,28 @@ export function createApp(deps: AppDeps): express.Express {
     }),
     workshopRoutes(table, createWorkshopService({ repo: createWorkshopRepo(db), db })),
     auditRoutes(table, createAuditService(createAuditRepo(db))),
-    portalRoutes(table, db),
-    portalEstimateRoutes(table, { service: portalService, db, limits: createRenewLimits(env, pool) }),
-    estimateQuestionRoutes(table, portalService),
+    portalRoutes(table, createPortalService({ repo: portalRepo })),
+    portalEstimateRoutes(table, {
+      links: createPortalLinksService({
+        repo: portalRepo,
+        outbox: deps.outbox,
+        env,
+        logger,
+        loadCustomer: (id) => authRepo.loadPrincipal('customer', id),
+      }),
+      decisions: createPortalDecisionsService({
+        repo: portalRepo,
+        outbox: deps.outbox,
+        deposits: createDepositCheckoutService({ repo: depositsRepo, stripe, logger }),
+        storage,
+        env,
+      }),
+      questions: portalQuestions,
+      // Until the estimates module's document service lands, the PDF comes straight from its renderer.
+      documents: { renderVersion: (workshopId, versionId) => renderVersionPdf(db, workshopId, versionId) },
+      limits: createRenewLimits(env, pool),
+    }),
+    estimateQuestionRoutes(table, portalQuestions),
     catalogueRoutes(table, {
       pricing: createPricingService({ repo: pricingRepo, db }),
       labour,
@@ -237,7 +254,7 @@ export function createApp(deps: AppDeps): express.Express {
       service: createJobsService(createJobsRepo(db)),
     }),
     liveRoutes(table, liveHub),
-    paymentsRoutes(table, deposits),
+    paymentsRoutes(table, createDepositRefundService({ repo: depositsRepo, stripe, logger, outbox: deps.outbox })),
     ...estimatesRoutes(table, {
       documents,
       service: createEstimatesService({

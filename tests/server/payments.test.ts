@@ -13,8 +13,11 @@ import request from 'supertest'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { auditEvents, depositPayments, jobs, outboundEmails, paymentEvents } from '../../server/db/schema'
 import { EnvError, loadEnv } from '../../server/env'
+import { systemContext } from '../../server/lib/audit'
 import { createStripeClient } from '../../server/lib/stripe'
-import { createDepositsService } from '../../server/modules/payments/deposits.service'
+import { createDepositCheckoutService } from '../../server/modules/payments/deposit-checkout.service'
+import { createDepositWebhookService } from '../../server/modules/payments/deposit-webhook.service'
+import { createDepositsRepo } from '../../server/modules/payments/deposits.repo'
 import { formatMoney } from '../../shared/money'
 import { LIVE_CHANNEL, type LiveEvent } from '../../shared/schemas/live'
 import { fakeJson, fakeState, freshKey, submitCard } from '../docker-free-dev/payments-fake-helpers'
@@ -37,13 +40,16 @@ const key = freshKey()
 const t = makeTestApp({ STRIPE_SECRET_KEY: key, STRIPE_API_BASE: fakeUrl() })
 const stripe = createStripeClient({ secretKey: key, apiBase: fakeUrl() })
 const quiet = pino({ level: 'silent' })
-const service = createDepositsService({ db: t.db, stripe, env: t.env, logger: quiet })
+const repo = createDepositsRepo(t.db)
+const service = createDepositCheckoutService({ repo, stripe, logger: quiet })
 
 /** A second account with no webhook endpoint: its events wait until a test delivers them by hand. */
 const silentKey = freshKey()
 const silentStripe = createStripeClient({ secretKey: silentKey, apiBase: fakeUrl() })
-const silentService = createDepositsService({ db: t.db, stripe: silentStripe, env: t.env, logger: quiet })
+const silentService = createDepositCheckoutService({ repo, stripe: silentStripe, logger: quiet })
 
+/** The service is called here as a route would call it, without a browser behind the call. */
+const caller = systemContext()
 const urls = {
   successUrl: 'http://127.0.0.1:3000/portal/deposit/return?session={CHECKOUT_SESSION_ID}',
   cancelUrl: 'http://127.0.0.1:3000/portal/deposit',
@@ -129,7 +135,7 @@ const sign = (body: string, secret = t.env.STRIPE_WEBHOOK_SECRET, timestamp?: nu
   stripe.webhooks.generateTestHeaderString({ payload: body, secret, timestamp })
 
 async function payDeposit(c: ConfirmedEstimate) {
-  const { url } = await service.startCheckout(c.confirmation.id, urls)
+  const { url } = await service.startCheckout(caller, c.confirmation.id, urls)
   const page = await submitCard(url, { number: CARD_OK })
   expect(page.status).toBe(303)
   return paidDeposit(c.confirmation.id)
@@ -148,7 +154,7 @@ describe('paying a deposit', () => {
     await listener.query(`listen ${LIVE_CHANNEL}`)
     try {
       await t.db.update(jobs).set({ status: 'waiting_for_customer' }).where(eq(jobs.id, fx.job.id))
-      const { url, sessionId } = await service.startCheckout(c.confirmation.id, urls)
+      const { url, sessionId } = await service.startCheckout(caller, c.confirmation.id, urls)
       const waiting = await depositOf(c.confirmation.id)
       expect(waiting).toMatchObject({
         status: 'awaiting_payment',
@@ -195,7 +201,7 @@ describe('paying a deposit', () => {
 
       expect(await service.getCheckoutStatus(sessionId)).toMatchObject({ state: 'paid', deposit: { status: 'paid', amountMinor: 8085 } })
       expect(await service.getDepositForConfirmation(c.confirmation.id)).toMatchObject({ status: 'paid', currency: 'GBP' })
-      await expect(service.startCheckout(c.confirmation.id, urls)).rejects.toMatchObject({ status: 409, code: 'already_paid' })
+      await expect(service.startCheckout(caller, c.confirmation.id, urls)).rejects.toMatchObject({ status: 409, code: 'already_paid' })
     } finally {
       await listener.end()
     }
@@ -218,7 +224,7 @@ describe('paying a deposit', () => {
 
   it('pays once when five copies of one event arrive at the same moment; "being confirmed" until then', async () => {
     const c = await makeConfirmedEstimate(t.db, fx)
-    const { url, sessionId } = await silentService.startCheckout(c.confirmation.id, urls)
+    const { url, sessionId } = await silentService.startCheckout(caller, c.confirmation.id, urls)
     expect((await submitCard(url, { number: CARD_OK })).status).toBe(303)
     const event = await completedEvent(silentKey, sessionId)
     // The provider has the money; only its webhook may say so here.
@@ -238,7 +244,7 @@ describe('paying a deposit', () => {
 
   it('refuses a missing, wrong, stale or tampered signature with 400 and records nothing', async () => {
     const c = await makeConfirmedEstimate(t.db, fx)
-    const { url, sessionId } = await silentService.startCheckout(c.confirmation.id, urls)
+    const { url, sessionId } = await silentService.startCheckout(caller, c.confirmation.id, urls)
     expect((await submitCard(url, { number: CARD_OK })).status).toBe(303)
     const event = await completedEvent(silentKey, sessionId)
     const body = JSON.stringify(event)
@@ -278,8 +284,9 @@ describe('paying a deposit', () => {
 
     const lines: { level: number; msg: string; eventId?: string }[] = []
     const logger = pino({ level: 'info' }, { write: (line: string) => void lines.push(JSON.parse(line) as (typeof lines)[number]) })
-    const watched = createDepositsService({ db: t.db, stripe, env: t.env, logger })
-    expect(await watched.handleEvent(event)).toBe('unknown')
+    const watched = createDepositWebhookService({ repo, stripe, env: t.env, logger, outbox: t.outbox })
+    const delivered = JSON.stringify(event)
+    expect(await watched.handleWebhook(Buffer.from(delivered), sign(delivered), caller)).toBe('unknown')
     // pino's level 40 is "warn".
     expect(lines.filter((l) => l.level === 40 && l.eventId === event.id)).toHaveLength(1)
     expect(await eventRows(event.id)).toHaveLength(0)
@@ -287,7 +294,7 @@ describe('paying a deposit', () => {
 
   it('leaves the deposit unpaid after a declined card, and the next try gets a page that takes a good card', async () => {
     const c = await makeConfirmedEstimate(t.db, fx)
-    const first = await service.startCheckout(c.confirmation.id, urls)
+    const first = await service.startCheckout(caller, c.confirmation.id, urls)
     const declined = await submitCard(first.url, { number: CARD_DECLINED })
     expect(declined.status).toBe(402)
 
@@ -304,7 +311,7 @@ describe('paying a deposit', () => {
     expect(await auditOf('deposit.paid', row?.id ?? '')).toHaveLength(0)
 
     // A declined card leaves Stripe's page open for another card, so trying again returns it.
-    const again = await service.startCheckout(c.confirmation.id, urls)
+    const again = await service.startCheckout(caller, c.confirmation.id, urls)
     expect(again).toEqual(first)
     expect((await fetch(again.url)).status).toBe(200)
     expect((await submitCard(again.url, { number: CARD_OK })).status).toBe(303)
@@ -318,7 +325,7 @@ describe('paying a deposit', () => {
 
   it('makes a fresh page under the next attempt key when the previous one expired unpaid', async () => {
     const c = await makeConfirmedEstimate(t.db, fx)
-    const first = await service.startCheckout(c.confirmation.id, urls)
+    const first = await service.startCheckout(caller, c.confirmation.id, urls)
     await stripe.checkout.sessions.expire(first.sessionId)
     await until('the expiry delivery', async () => {
       const state = await fakeState(key)
@@ -328,9 +335,9 @@ describe('paying a deposit', () => {
     expect(await depositOf(c.confirmation.id)).toMatchObject({ status: 'awaiting_payment', checkoutSessionId: first.sessionId })
     expect((await submitCard(first.url, { number: CARD_OK })).status).toBe(410)
 
-    const second = await service.startCheckout(c.confirmation.id, urls)
+    const second = await service.startCheckout(caller, c.confirmation.id, urls)
     expect(second.sessionId).not.toBe(first.sessionId)
-    expect(await service.startCheckout(c.confirmation.id, urls)).toEqual(second)
+    expect(await service.startCheckout(caller, c.confirmation.id, urls)).toEqual(second)
     const sessions = (await fakeState(key)).checkout_sessions.filter((s) => s.metadata?.confirmationId === c.confirmation.id)
     expect(sessions.map((s) => [s.id, s.metadata?.attempt, s.status])).toEqual([
       [first.sessionId, '1', 'expired'],
@@ -345,7 +352,10 @@ describe('paying a deposit', () => {
 
   it('makes one payment page when two requests for it arrive together', async () => {
     const c = await makeConfirmedEstimate(t.db, fx)
-    const [a, b] = await Promise.all([service.startCheckout(c.confirmation.id, urls), service.startCheckout(c.confirmation.id, urls)])
+    const [a, b] = await Promise.all([
+      service.startCheckout(caller, c.confirmation.id, urls),
+      service.startCheckout(caller, c.confirmation.id, urls),
+    ])
     expect(a).toEqual(b)
     const sessions = (await fakeState(key)).checkout_sessions.filter((s) => s.metadata?.confirmationId === c.confirmation.id)
     expect(sessions.map((s) => s.id)).toEqual([a?.sessionId])
@@ -356,7 +366,10 @@ describe('paying a deposit', () => {
 
     // Again once the deposit row exists and its page has expired: the row lock, not the insert, now keeps them apart.
     await stripe.checkout.sessions.expire(a?.sessionId ?? '')
-    const [c2, d2] = await Promise.all([service.startCheckout(c.confirmation.id, urls), service.startCheckout(c.confirmation.id, urls)])
+    const [c2, d2] = await Promise.all([
+      service.startCheckout(caller, c.confirmation.id, urls),
+      service.startCheckout(caller, c.confirmation.id, urls),
+    ])
     expect(c2).toEqual(d2)
     expect(c2?.sessionId).not.toBe(a?.sessionId)
     const after = (await fakeState(key)).checkout_sessions.filter((s) => s.metadata?.confirmationId === c.confirmation.id)
@@ -366,18 +379,17 @@ describe('paying a deposit', () => {
 
   it('makes a new page when the provider no longer knows the last one', async () => {
     const forgetfulKey = freshKey()
-    const forgetful = createDepositsService({
-      db: t.db,
+    const forgetful = createDepositCheckoutService({
+      repo,
       stripe: createStripeClient({ secretKey: forgetfulKey, apiBase: fakeUrl() }),
-      env: t.env,
       logger: quiet,
     })
     const c = await makeConfirmedEstimate(t.db, fx)
-    const first = await forgetful.startCheckout(c.confirmation.id, urls)
+    const first = await forgetful.startCheckout(caller, c.confirmation.id, urls)
     // Restarting the local fake loses its state the same way.
     expect((await fakeJson(forgetfulKey, 'POST', '/_fake/reset')).status).toBe(200)
     expect(await forgetful.getCheckoutStatus(first.sessionId)).toMatchObject({ state: 'expired' })
-    const second = await forgetful.startCheckout(c.confirmation.id, urls)
+    const second = await forgetful.startCheckout(caller, c.confirmation.id, urls)
     expect(second.sessionId).not.toBe(first.sessionId)
     expect((await fetch(second.url)).status).toBe(200)
     expect((await depositOf(c.confirmation.id))?.checkoutSessionId).toBe(second.sessionId)
@@ -388,20 +400,22 @@ describe('paying a deposit', () => {
     const closed = await listen(t.app)
     const unreachable = closed.baseUrl
     await closed.close()
-    const offline = createDepositsService({
-      db: t.db,
+    const offline = createDepositCheckoutService({
+      repo,
       stripe: createStripeClient({ secretKey: freshKey(), apiBase: unreachable }),
-      env: t.env,
       logger: quiet,
     })
     const c = await makeConfirmedEstimate(t.db, fx)
-    await expect(offline.startCheckout(c.confirmation.id, urls)).rejects.toMatchObject({ status: 502, code: 'payment_provider_error' })
+    await expect(offline.startCheckout(caller, c.confirmation.id, urls)).rejects.toMatchObject({
+      status: 502,
+      code: 'payment_provider_error',
+    })
     expect(await depositOf(c.confirmation.id)).toBeUndefined()
   }, 30_000)
 
   it('refuses a payment page when no deposit is due', async () => {
     const c = await makeConfirmedEstimate(t.db, fx, { depositMinor: 0 })
-    await expect(service.startCheckout(c.confirmation.id, urls)).rejects.toMatchObject({ status: 409, code: 'no_deposit_due' })
+    await expect(service.startCheckout(caller, c.confirmation.id, urls)).rejects.toMatchObject({ status: 409, code: 'no_deposit_due' })
     expect(await depositOf(c.confirmation.id)).toBeUndefined()
   })
 })
@@ -437,7 +451,7 @@ describe('refunding a deposit', () => {
 
   it('answers 409 for a deposit not paid, and 404 for another workshop', async () => {
     const unpaid = await makeConfirmedEstimate(t.db, fx)
-    await service.startCheckout(unpaid.confirmation.id, urls)
+    await service.startCheckout(caller, unpaid.confirmation.id, urls)
     const owner = await signIn(t.app, fx.owner.email)
     const res = await owner.post(`/api/estimates/${unpaid.estimate.id}/deposit/refund`).expect(409)
     expect(res.body.error.code).toBe('not_paid')

@@ -17,7 +17,7 @@ import {
   outboundEmails,
 } from '../../server/db/schema'
 import { createLocalStorage } from '../../server/lib/storage'
-import { revokeEstimateLinks } from '../../server/modules/portal/estimate-links'
+import { revokeEstimateLinks } from '../../server/modules/portal/estimate-links.repo'
 import { calculateEstimate } from '../../shared/estimate'
 import type { Decision } from '../../shared/estimate/contract'
 import { snapshotToEngineInput } from '../../shared/schemas/estimates'

@@ -1,7 +1,9 @@
 import { and, desc, eq } from 'drizzle-orm'
 import type { Database, Queryable, Tx } from '../../db/client'
-import { setJobStatus } from '../jobs/jobs.repo'
 import { customers, depositPayments, estimateConfirmations, estimates, estimateVersions, paymentEvents, workshops } from '../../db/schema'
+import { recordAudit } from '../../lib/audit'
+import { publishLive } from '../../lib/live-publish'
+import { setJobStatus } from '../jobs/jobs.repo'
 
 export type { Tx }
 type Db = Queryable
@@ -13,9 +15,11 @@ export function createDepositsRepo(db: Database) {
   return {
     transaction: <T>(fn: (tx: Tx) => Promise<T>) => db.transaction(fn),
     setJobStatus,
+    recordAudit,
+    publishLive,
 
     /** Everything a payment page, receipt or live event says about one confirmation. */
-    async confirmationContext(q: Db, confirmationId: string) {
+    async confirmationDetails(q: Db, confirmationId: string) {
       const [row] = await q
         .select({
           confirmation: {
@@ -112,3 +116,4 @@ export function createDepositsRepo(db: Database) {
 }
 
 export type DepositsRepo = ReturnType<typeof createDepositsRepo>
+export type ConfirmationDetails = NonNullable<Awaited<ReturnType<DepositsRepo['confirmationDetails']>>>

@@ -1,31 +1,37 @@
 import express from 'express'
 import { IdParamsSchema } from '../../../shared/schemas/common'
+import { auditContextOf } from '../../lib/audit'
 import { type RouteTable, anyone, staffWith } from '../../lib/route-table'
 import { staffOf } from '../../middleware/auth'
-import { validate } from '../../middleware/validate'
-import type { DepositsService } from './deposits.service'
+import { handle } from '../../middleware/validate'
+import type { DepositRefundService } from './deposit-refund.service'
+import type { DepositWebhookService } from './deposit-webhook.service'
 
 /**
  * The provider's webhook. The signature covers the exact bytes sent, so this group is mounted
  * ahead of the JSON parser (and of sessions and the CSRF check, which a server-to-server call
  * cannot satisfy): the signature is its only credential.
  */
-export function paymentsWebhookRoutes(table: RouteTable, service: DepositsService) {
+export function paymentsWebhookRoutes(table: RouteTable, service: DepositWebhookService) {
   const g = table.group('/payments')
   g.post('/webhook', anyone, express.raw({ type: 'application/json', limit: '1mb' }), async (req, res) => {
-    const event = service.verifyEvent(req.body, req.get('stripe-signature'))
-    await service.handleEvent(event, req)
+    const body: unknown = req.body
+    // The caller's address stays on the audit record as for any other request; the entry names the card payment as the actor.
+    await service.handleWebhook(Buffer.isBuffer(body) ? body : undefined, req.get('stripe-signature'), auditContextOf(req))
     res.json({ received: true })
   })
   return g
 }
 
 /** Staff actions on an estimate's deposit. */
-export function paymentsRoutes(table: RouteTable, service: DepositsService) {
+export function paymentsRoutes(table: RouteTable, service: DepositRefundService) {
   const g = table.group('/estimates')
-  g.post('/:id/deposit/refund', staffWith('estimates:write'), validate({ params: IdParamsSchema }), async (req, res) => {
-    const { id } = req.params as { id: string }
-    res.json(await service.refund(req, staffOf(req), id))
-  })
+  g.post(
+    '/:id/deposit/refund',
+    staffWith('estimates:write'),
+    handle({ params: IdParamsSchema }, async (req, res) => {
+      res.json(await service.refund(auditContextOf(req), staffOf(req), req.params.id))
+    }),
+  )
   return g
 }

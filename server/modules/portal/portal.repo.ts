@@ -1,4 +1,4 @@
-import { and, asc, desc, eq, getTableColumns, sql } from 'drizzle-orm'
+import { and, asc, desc, eq, getTableColumns, isNull, sql } from 'drizzle-orm'
 import type { Database, Queryable, Tx } from '../../db/client'
 import {
   customers,
@@ -11,14 +11,16 @@ import {
   estimateVersions,
   photos,
   staffUsers,
+  vehicles,
   workshops,
 } from '../../db/schema'
+import { recordAudit } from '../../lib/audit'
+import { publishLive } from '../../lib/live-publish'
 import { setJobStatus } from '../jobs/jobs.repo'
 import type { Decision } from '../../../shared/estimate/contract'
 import type { EstimateSnapshot } from '../../../shared/schemas/estimates'
-
 import { versionExpiredSql } from '../estimates/estimate-status.sql'
-import { linkExpiry } from './estimate-links'
+import { issueEstimateLink, linkExpiry } from './estimate-links.repo'
 
 export type { Queryable, Tx }
 
@@ -61,6 +63,19 @@ export function createPortalRepo(db: Database) {
         .innerJoin(workshops, eq(workshops.id, estimateVersions.workshopId))
         .where(and(eq(estimateVersions.workshopId, workshopId), eq(estimateVersions.estimateId, estimateId)))
         .orderBy(asc(estimateVersions.version))
+    },
+
+    /**
+     * The estimate row shared-locked for the rest of the transaction, so it cannot be sent again or
+     * withdrawn until the caller commits.
+     */
+    async lockEstimate(tx: Tx, workshopId: string, estimateId: string) {
+      const [row] = await tx
+        .select({ id: estimates.id, jobId: estimates.jobId, withdrawnAt: estimates.withdrawnAt })
+        .from(estimates)
+        .where(and(eq(estimates.workshopId, workshopId), eq(estimates.id, estimateId)))
+        .for('share')
+      return row
     },
 
     async estimate(q: Queryable, workshopId: string, estimateId: string) {
@@ -163,8 +178,10 @@ export function createPortalRepo(db: Database) {
 
     /** A job already finished or cancelled is left as it is: a late confirmation does not reopen it. */
     setJobStatus,
-
     linkExpiry,
+    issueLink: issueEstimateLink,
+    recordAudit,
+    publishLive,
 
     async customer(q: Queryable, workshopId: string, customerId: string) {
       const [row] = await q
@@ -260,6 +277,15 @@ export function createPortalRepo(db: Database) {
       return row
     },
 
+    /** The customer's own vehicles that the workshop has not archived. */
+    async vehicles(workshopId: string, customerId: string) {
+      return db
+        .select({ id: vehicles.id, registration: vehicles.registration, make: vehicles.make, model: vehicles.model, year: vehicles.year })
+        .from(vehicles)
+        .where(and(eq(vehicles.workshopId, workshopId), eq(vehicles.customerId, customerId), isNull(vehicles.archivedAt)))
+        .orderBy(asc(vehicles.registration))
+    },
+
     async photo(workshopId: string, photoId: string) {
       const [row] = await db
         .select()
@@ -271,3 +297,6 @@ export function createPortalRepo(db: Database) {
 }
 
 export type PortalRepo = ReturnType<typeof createPortalRepo>
+/** A version's confirmation with its deposit, when one has been asked for. */
+export type ConfirmedRow = NonNullable<Awaited<ReturnType<PortalRepo['confirmation']>>>
+export type QuestionRow = Awaited<ReturnType<PortalRepo['questions']>>[number]

@@ -1,20 +1,15 @@
-import { and, asc, eq, isNull } from 'drizzle-orm'
-import type { Database } from '../../db/client'
-import { vehicles } from '../../db/schema'
 import { type RouteTable, customerOnly } from '../../lib/route-table'
 import { customerOf } from '../../middleware/auth'
+import type { PortalService } from './portal.service'
 
-/** What a signed-in customer sees of their own records; estimates join this list with the portal work. */
-export function portalRoutes(table: RouteTable, db: Database) {
+/** What a signed-in customer sees of their own records: their estimates and their vehicles. */
+export function portalRoutes(table: RouteTable, service: PortalService) {
   const g = table.group('/portal')
   g.get('/vehicles', customerOnly, async (req, res) => {
-    const me = customerOf(req)
-    const rows = await db
-      .select({ id: vehicles.id, registration: vehicles.registration, make: vehicles.make, model: vehicles.model, year: vehicles.year })
-      .from(vehicles)
-      .where(and(eq(vehicles.workshopId, me.workshop.id), eq(vehicles.customerId, me.id), isNull(vehicles.archivedAt)))
-      .orderBy(asc(vehicles.registration))
-    res.json({ items: rows })
+    res.json({ items: await service.vehicles(customerOf(req)) })
+  })
+  g.get('/estimates', customerOnly, async (req, res) => {
+    res.json({ items: await service.estimates(customerOf(req)) })
   })
   return g
 }

@@ -1,28 +1,29 @@
-import type { Request } from 'express'
+import { auditContextOf } from '../../lib/audit'
 import { type RouteTable, staffWith } from '../../lib/route-table'
 import { staffOf } from '../../middleware/auth'
-import { validate } from '../../middleware/validate'
-import type { PortalService } from './portal.service'
-import { AnswerQuestionSchema, PortalEstimateParamsSchema, QuestionParamsSchema, type AnswerQuestion } from '../../../shared/schemas/portal'
+import { handle } from '../../middleware/validate'
+import type { PortalQuestionsService } from './portal-questions.service'
+import { AnswerQuestionSchema, PortalEstimateParamsSchema, QuestionParamsSchema } from '../../../shared/schemas/portal'
 
 /** The workshop's side of customers' questions: read them with the estimate, answer by e-mail with a link back. */
-export function estimateQuestionRoutes(table: RouteTable, service: PortalService) {
+export function estimateQuestionRoutes(table: RouteTable, service: PortalQuestionsService) {
   const g = table.group('/estimates')
-  const paramsOf = (req: Request) => req.params as { id: string; questionId: string }
 
-  g.get('/:id/questions', staffWith('estimates:read'), validate({ params: PortalEstimateParamsSchema }), async (req, res) => {
-    const me = staffOf(req)
-    res.json({ items: await service.staffQuestions(me, paramsOf(req).id) })
-  })
+  g.get(
+    '/:id/questions',
+    staffWith('estimates:read'),
+    handle({ params: PortalEstimateParamsSchema }, async (req, res) => {
+      res.json({ items: await service.staffQuestions(staffOf(req), req.params.id) })
+    }),
+  )
 
   g.post(
     '/:id/questions/:questionId/answer',
     staffWith('estimates:write'),
-    validate({ params: QuestionParamsSchema, body: AnswerQuestionSchema }),
-    async (req, res) => {
-      const { id, questionId } = paramsOf(req)
-      res.json(await service.answer(req, staffOf(req), id, questionId, req.body as AnswerQuestion))
-    },
+    handle({ params: QuestionParamsSchema, body: AnswerQuestionSchema }, async (req, res) => {
+      const { id, questionId } = req.params
+      res.json(await service.answer(auditContextOf(req), staffOf(req), id, questionId, req.body))
+    }),
   )
 
   return g
