@@ -1,5 +1,6 @@
 import { NotFoundError } from '../../lib/errors'
 import type { ConfirmationDetails, DepositRow, DepositsRepo, Tx } from './deposits.repo'
+import { iso } from '../../../shared/dates'
 import { estimateReference } from '../../../shared/schemas/estimates'
 import type { Deposit } from '../../../shared/schemas/payments'
 
@@ -12,9 +13,9 @@ export function toDeposit(row: DepositRow): Deposit {
     status: row.status,
     amountMinor: row.amountMinor,
     currency: row.currency,
-    paidAt: row.paidAt?.toISOString() ?? null,
+    paidAt: iso(row.paidAt),
     refundedMinor: row.refundedMinor,
-    refundedAt: row.refundedAt?.toISOString() ?? null,
+    refundedAt: iso(row.refundedAt),
   }
 }
 

@@ -33,7 +33,8 @@ export type VersionRow = typeof estimateVersions.$inferSelect & { expired: boole
 /** Drizzle queries of the customer's portal; every query names the workshop, and the caller's customer where it reads. */
 export function createPortalRepo(db: Database) {
   return {
-    db,
+    /** What reads outside a transaction run on; services need no more of it than any query handle. */
+    db: db as Queryable,
     transaction: <T>(fn: (tx: Tx) => Promise<T>) => db.transaction(fn),
 
     /** The link a token stands for, with its version and estimate, whatever state they are in. */

@@ -4,7 +4,7 @@ import sharp from 'sharp'
 import type { Database } from '../../../server/db/client'
 import { customers, estimateVersions, findings, jobs, photos, vehicles } from '../../../server/db/schema'
 import type { FileStorage } from '../../../server/lib/storage'
-import { snapshotHash } from '../../../server/modules/estimates/estimate-snapshot'
+import { buildSnapshot, snapshotHash } from '../../../server/modules/estimates/estimate-snapshot'
 import { issueEstimateLink, revokeEstimateLinks } from '../../../server/modules/portal/estimate-links.repo'
 import { calculateEstimate } from '../../../shared/estimate'
 import { type EstimateDraft, type EstimateSnapshot, snapshotToEngineInput } from '../../../shared/schemas/estimates'
@@ -90,6 +90,31 @@ export function portalDraft(overrides: Partial<EstimateDraft> = {}): EstimateDra
 }
 
 export const WORKSHOP_EMAIL = 'desk@portal-fixture.test'
+
+/** `portalDraft()` frozen as sending would freeze it, without the database: for tests of services on fake repositories. */
+export function portalSnapshot(opts: {
+  estimateId: string
+  version?: number
+  customer: EstimateSnapshot['customer']
+  workshopName?: string
+}): EstimateSnapshot {
+  return buildSnapshot({
+    estimate: { id: opts.estimateId, number: 42 },
+    version: opts.version ?? 1,
+    draft: portalDraft(),
+    currency: 'GBP',
+    workshop: {
+      name: opts.workshopName ?? 'Ridgeway 4x4',
+      addressLines: ['1 Ridgeway'],
+      postcode: 'OX1 1AA',
+      phone: null,
+      email: WORKSHOP_EMAIL,
+      vatNumber: null,
+    },
+    customer: opts.customer,
+    vehicle: { registration: 'AB12 CDE', make: 'Land Rover', model: 'Defender', year: 2004, vin: null },
+  })
+}
 
 export interface LinkedEstimate extends SentEstimate {
   token: string
