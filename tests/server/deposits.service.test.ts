@@ -1,5 +1,5 @@
 /**
- * The deposit webhook's rules, on the service alone: the repository and the outbox are fakes whose
+ * The deposit webhook's rules, on the service alone, with a fake outbox and a fake repository whose
  * transaction keeps its writes only when it ends without an error, as PostgreSQL's does. Events are
  * signed with the Stripe SDK's own test helper (`webhooks.generateTestHeaderString`), so the
  * signature check is the SDK's real one.
@@ -9,18 +9,15 @@ import pino from 'pino'
 import { describe, expect, it } from 'vitest'
 import { type AuditEntry, systemContext } from '../../server/lib/audit'
 import { createStripeClient } from '../../server/lib/stripe'
-import type { OutboundMessage } from '../../server/modules/email/outbox'
 import { createDepositWebhookService, type DepositWebhookDeps } from '../../server/modules/payments/deposit-webhook.service'
-import type { ConfirmationDetails, DepositRow, Tx } from '../../server/modules/payments/deposits.repo'
+import type { ConfirmationDetails, DepositRow } from '../../server/modules/payments/deposits.repo'
 import type { JobStatus } from '../../shared/schemas/records'
-import { portalSnapshot } from './helpers/portal'
+import { fakeOutbox, fakeTx, portalSnapshot } from './helpers/portal'
 
 const SECRET = 'whsec_unit_test_secret'
 const stripe = createStripeClient({ secretKey: 'sk_test_unit' })
 const sign = (body: string, secret = SECRET) => stripe.webhooks.generateTestHeaderString({ payload: body, secret })
 
-/** The fake repository never looks at the query handle: the service only hands it back. */
-const handle = {} as Tx
 const ctx = systemContext('req-webhook')
 
 /** The deposit asked for, £80.85. */
@@ -32,7 +29,6 @@ interface Stored {
   audit: AuditEntry[]
   live: string[]
   jobMoves: { workshopId: string; jobId: string; from: readonly JobStatus[]; to: JobStatus }[]
-  emails: OutboundMessage[]
 }
 
 /** One confirmation with a deposit awaiting payment on checkout session `cs_…`, and a webhook service over it. */
@@ -65,14 +61,14 @@ function world() {
     createdAt: new Date(),
     updatedAt: new Date(),
   }
-  let db: Stored = { events: [], deposits: [deposit], audit: [], live: [], jobMoves: [], emails: [] }
+  let db: Stored = { events: [], deposits: [deposit], audit: [], live: [], jobMoves: [] }
   const find = (match: (d: DepositRow) => boolean) => db.deposits.find(match)
 
   const repo: DepositWebhookDeps['repo'] = {
     transaction: async (fn) => {
       const before = structuredClone(db)
       try {
-        return await fn(handle)
+        return await fn(fakeTx)
       } catch (err) {
         db = before
         throw err
@@ -104,6 +100,7 @@ function world() {
     },
   }
 
+  const outbox = fakeOutbox()
   const lines: { level: number; msg: string }[] = []
   const logger = pino({ level: 'info' }, { write: (line: string) => void lines.push(JSON.parse(line) as (typeof lines)[number]) })
   const service = createDepositWebhookService({
@@ -111,13 +108,7 @@ function world() {
     stripe,
     env: { STRIPE_WEBHOOK_SECRET: SECRET },
     logger,
-    outbox: {
-      queue: async (message) => {
-        db.emails.push(message)
-        return { id: randomUUID() }
-      },
-      resend: async () => undefined,
-    },
+    outbox,
   })
 
   /** The body the provider posts when a checkout session is paid: `checkout.session.completed` as its API documents it. */
@@ -150,7 +141,7 @@ function world() {
   const post = (body: string, signature: string | undefined) => service.handleWebhook(Buffer.from(body), signature, ctx)
   /** A delivery signed as the provider signs it. */
   const deliver = (body: string) => post(body, sign(body))
-  return { details, deposit: () => db.deposits[0], stored: () => db, lines, completed, post, deliver }
+  return { details, deposit: () => db.deposits[0], stored: () => db, emails: outbox.queued, lines, completed, post, deliver }
 }
 
 describe('the deposit webhook', () => {
@@ -160,7 +151,8 @@ describe('the deposit webhook', () => {
     for (const signature of [undefined, sign(body, 'whsec_not_the_right_secret'), 'garbage', sign(w.completed({ amount: 1 }))]) {
       await expect(w.post(body, signature)).rejects.toMatchObject({ status: 400, code: 'bad_signature' })
     }
-    expect(w.stored()).toMatchObject({ events: [], audit: [], live: [], jobMoves: [], emails: [] })
+    expect(w.stored()).toMatchObject({ events: [], audit: [], live: [], jobMoves: [] })
+    expect(w.emails).toEqual([])
     expect(w.deposit()).toMatchObject({ status: 'awaiting_payment', paidAt: null })
   })
 
@@ -175,10 +167,10 @@ describe('the deposit webhook', () => {
       expect.objectContaining({ action: 'deposit.paid', actor: { kind: 'system', name: 'Card payment' }, workshopId: workshop.id }),
     ])
     expect(w.stored().live).toEqual(['estimate.deposit_paid'])
-    expect(w.stored().emails).toEqual([
+    expect(w.emails).toEqual([
       expect.objectContaining({ kind: 'deposit.paid', to: 'dana@fixture.test', subject: 'Deposit received for estimate E-0042' }),
     ])
-    expect(w.stored().emails[0]?.text).toContain('has received your deposit of £80.85')
+    expect(w.emails[0]?.text).toContain('has received your deposit of £80.85')
   })
 
   it('applies the same event id once, however often it is delivered', async () => {
@@ -192,7 +184,7 @@ describe('the deposit webhook', () => {
     expect(w.stored()).toMatchObject({ events: ['evt_once'], live: ['estimate.deposit_paid'] })
     expect(w.stored().audit).toHaveLength(1)
     expect(w.stored().jobMoves).toHaveLength(1)
-    expect(w.stored().emails).toHaveLength(1)
+    expect(w.emails).toHaveLength(1)
     expect(w.deposit()?.paidAt).toEqual(paidAt)
   })
 
@@ -203,7 +195,7 @@ describe('the deposit webhook', () => {
     expect(w.stored().events).toHaveLength(2)
     expect(w.stored().audit).toHaveLength(1)
     expect(w.stored().jobMoves).toHaveLength(1)
-    expect(w.stored().emails).toHaveLength(1)
+    expect(w.emails).toHaveLength(1)
   })
 
   // Today's rule: the money has been taken, so the deposit is recorded paid and the mismatch is logged for staff.
@@ -223,7 +215,8 @@ describe('the deposit webhook', () => {
     expect(await w.deliver(body)).toBe('unknown')
 
     // The event id is not kept either: the transaction that recorded it was rolled back.
-    expect(w.stored()).toMatchObject({ events: [], audit: [], live: [], jobMoves: [], emails: [] })
+    expect(w.stored()).toMatchObject({ events: [], audit: [], live: [], jobMoves: [] })
+    expect(w.emails).toEqual([])
     expect(w.deposit()).toMatchObject({ status: 'awaiting_payment', paidAt: null })
     // pino's level 40 is "warn".
     expect(w.lines.filter((l) => l.level === 40).map((l) => l.msg)).toEqual(['payment event for an unknown payment ignored'])

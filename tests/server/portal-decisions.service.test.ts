@@ -5,21 +5,17 @@
 import { randomUUID } from 'node:crypto'
 import { describe, expect, it } from 'vitest'
 import type { AuditContext, AuditEntry } from '../../server/lib/audit'
-import type { OutboundMessage } from '../../server/modules/email/outbox'
 import { snapshotHash } from '../../server/modules/estimates/estimate-snapshot'
 import { createPortalDecisionsService, type PortalDecisionsDeps } from '../../server/modules/portal/portal-decisions.service'
-import type { ConfirmedRow, Tx, VersionRow } from '../../server/modules/portal/portal.repo'
+import type { ConfirmedRow, VersionRow } from '../../server/modules/portal/portal.repo'
 import { calculateEstimate } from '../../shared/estimate'
 import type { Decision } from '../../shared/estimate/contract'
 import type { CustomerPrincipal } from '../../shared/schemas/auth'
 import type { JobStatus } from '../../shared/schemas/records'
 import { type EstimateSnapshot, snapshotToEngineInput } from '../../shared/schemas/estimates'
-import { portalSnapshot } from './helpers/portal'
+import { fakeOutbox, fakeTx, portalSnapshot } from './helpers/portal'
 
 type Repo = PortalDecisionsDeps['repo']
-
-/** The fake repository never looks at the query handle: the service only hands it back. */
-const handle = {} as Tx
 
 const workshopId = randomUUID()
 const me: CustomerPrincipal = {
@@ -77,14 +73,14 @@ function world(opts: { versions?: number; withdrawn?: boolean; latest?: Partial<
     audit: [] as { ctx: AuditContext | null; entry: AuditEntry }[],
     live: [] as { type: string; summary?: string }[],
     jobMoves: [] as { jobId: string; from: readonly JobStatus[]; to: JobStatus }[],
-    emails: [] as OutboundMessage[],
     checkouts: [] as { ctx: AuditContext; confirmationId: string }[],
   }
+  const outbox = fakeOutbox()
   const mine = (ws: string, id: string) => ws === workshopId && id === estimate.id
 
   const repo: Repo = {
-    db: handle,
-    transaction: (fn) => fn(handle),
+    db: fakeTx,
+    transaction: (fn) => fn(fakeTx),
     estimate: async (_q, ws, id) => (mine(ws, id) ? { ...estimate, workshopTimezone: 'Europe/London' } : undefined),
     lockEstimate: async (_tx, ws, id) => (mine(ws, id) ? estimate : undefined),
     versions: async (_q, ws, id) => (mine(ws, id) ? versions : []),
@@ -97,21 +93,7 @@ function world(opts: { versions?: number; withdrawn?: boolean; latest?: Partial<
     },
     confirmation: async (_q, _ws, versionId) => confirmations.get(versionId),
     insertConfirmation: async (_tx, values) => {
-      const row = {
-        id: randomUUID(),
-        workshopId: values.workshopId,
-        versionId: values.versionId,
-        customerId: values.customerId,
-        versionHash: values.versionHash,
-        decisions: values.decisions,
-        consents: values.consents,
-        result: values.result,
-        approvedGross: values.approvedGross,
-        depositMinor: values.depositMinor,
-        ip: values.ip ?? null,
-        userAgent: values.userAgent ?? null,
-        confirmedAt: new Date(),
-      }
+      const row = { ...values, id: randomUUID(), ip: values.ip ?? null, userAgent: values.userAgent ?? null, confirmedAt: new Date() }
       confirmations.set(row.versionId, { confirmation: row, deposit: null })
       return row
     },
@@ -132,13 +114,7 @@ function world(opts: { versions?: number; withdrawn?: boolean; latest?: Partial<
 
   const service = createPortalDecisionsService({
     repo,
-    outbox: {
-      queue: async (message) => {
-        written.emails.push(message)
-        return { id: randomUUID() }
-      },
-      resend: async () => undefined,
-    },
+    outbox,
     deposits: {
       startCheckout: async (checkoutCtx, confirmationId) => {
         written.checkouts.push({ ctx: checkoutCtx, confirmationId })
@@ -149,7 +125,7 @@ function world(opts: { versions?: number; withdrawn?: boolean; latest?: Partial<
     env: { PUBLIC_BASE_URL: 'https://tickover.example.test' },
   })
   const latest = versions.at(-1) ?? versionRow(estimate.id, 1)
-  return { service, estimate, versions, latest, confirmations, written }
+  return { service, estimate, versions, latest, confirmations, written, emails: outbox.queued }
 }
 
 const engine = (snapshot: EstimateSnapshot, decisions: Record<string, Decision>) =>
@@ -176,64 +152,57 @@ describe('deciding on an item', () => {
     expect(w.written.live).toEqual([{ type: 'estimate.decision', summary: `${me.name} approved item 2: Front prop shaft UJ` }])
   })
 
-  it('refuses a withdrawn estimate with 410 and saves nothing', async () => {
-    const w = world({ withdrawn: true })
-    await expect(w.service.decide(ctx, me, w.estimate.id, 'uj', { version: 1, decision: 'approved' })).rejects.toMatchObject({
-      status: 410,
-      code: 'withdrawn',
-    })
+  const closed: [string, Parameters<typeof world>[0], Record<string, unknown>][] = [
+    ['a withdrawn estimate with 410', { withdrawn: true }, { status: 410, code: 'withdrawn' }],
+    [
+      'a superseded version with 409, naming the newer one',
+      { versions: 2 },
+      { status: 409, code: 'superseded', details: { latestVersion: 2 } },
+    ],
+    ['an expired version with 410', { latest: { expired: true } }, { status: 410, code: 'expired' }],
+    ['a confirmed version with 409', { latest: { confirmedAt: new Date() } }, { status: 409, code: 'confirmed' }],
+  ]
+  it.each(closed)('refuses %s and saves nothing', async (_case, state, refusal) => {
+    const w = world(state)
+    await expect(w.service.decide(ctx, me, w.estimate.id, 'uj', { version: 1, decision: 'approved' })).rejects.toMatchObject(refusal)
     expect(w.written.saved).toEqual([])
+    expect(w.written.audit).toEqual([])
   })
 
-  it('refuses a superseded version with 409, naming the newer version in the details', async () => {
-    const w = world({ versions: 2 })
-    await expect(w.service.decide(ctx, me, w.estimate.id, 'uj', { version: 1, decision: 'approved' })).rejects.toMatchObject({
-      status: 409,
-      code: 'superseded',
-      details: { latestVersion: 2 },
-    })
-    expect(w.written.saved).toEqual([])
-  })
-
-  it('refuses an expired version with 410, saying until when it could be decided on', async () => {
+  it('says until when an expired version could be decided on', async () => {
     const w = world({ latest: { expired: true } })
-    const refusal = w.service.decide(ctx, me, w.estimate.id, 'uj', { version: 1, decision: 'declined' })
-    await expect(refusal).rejects.toMatchObject({ status: 410, code: 'expired' })
-    await expect(refusal).rejects.toThrow(`until the end of ${w.latest.expiresOn}`)
-    expect(w.written.saved).toEqual([])
+    await expect(w.service.decide(ctx, me, w.estimate.id, 'uj', { version: 1, decision: 'declined' })).rejects.toThrow(
+      `This estimate could be decided on until the end of ${w.latest.expiresOn}.`,
+    )
   })
 
-  it('refuses a confirmed version with 409', async () => {
-    const w = world({ latest: { confirmedAt: new Date() } })
-    await expect(w.service.decide(ctx, me, w.estimate.id, 'uj', { version: 1, decision: 'declined' })).rejects.toMatchObject({
-      status: 409,
-      code: 'confirmed',
-    })
-    expect(w.written.saved).toEqual([])
-  })
-
-  it('refuses an approval whose required item is not approved, naming that item', async () => {
-    const w = world()
-    const refusal = w.service.decide(ctx, me, w.estimate.id, 'bearing', { version: 1, decision: 'approved' })
-    await expect(refusal).rejects.toMatchObject({
+  const seals = 'item 1 (Swivel housing seal — left)'
+  const bearing = 'item 3 (Swivel bearing preload)'
+  const broken: [string, Record<string, Decision>, string, Decision, string, string][] = [
+    [
+      'an approval whose required item is not approved, naming that item',
+      {},
+      'bearing',
+      'approved',
+      `Item 3 (Swivel bearing preload) can only be done together with ${seals}. Approve that item first, or decline this one.`,
+      'seals',
+    ],
+    [
+      'a decline that would leave an approved item without the item it requires, naming the approved one',
+      { seals: 'approved', bearing: 'approved' },
+      'seals',
+      'declined',
+      `You approved ${bearing}, which can only be done together with this item. Decline that item first, or keep this one approved.`,
+      'bearing',
+    ],
+  ]
+  it.each(broken)('refuses %s', async (_case, stored, itemId, decision, message, otherItem) => {
+    const w = world({ stored })
+    await expect(w.service.decide(ctx, me, w.estimate.id, itemId, { version: 1, decision })).rejects.toMatchObject({
       status: 422,
       code: 'requires',
-      message:
-        'Item 3 (Swivel bearing preload) can only be done together with item 1 (Swivel housing seal — left). Approve that item first, or decline this one.',
-      issues: [{ path: ['decisions', 'seals'], message: 'Item 3 (Swivel bearing preload) needs item 1 (Swivel housing seal — left)' }],
-    })
-    expect(w.written.saved).toEqual([])
-  })
-
-  it('refuses a decline that would leave an approved item without the item it requires, naming the approved one', async () => {
-    const w = world({ stored: { seals: 'approved', bearing: 'approved' } })
-    const refusal = w.service.decide(ctx, me, w.estimate.id, 'seals', { version: 1, decision: 'declined' })
-    await expect(refusal).rejects.toMatchObject({
-      status: 422,
-      code: 'requires',
-      message:
-        'You approved item 3 (Swivel bearing preload), which can only be done together with this item. Decline that item first, or keep this one approved.',
-      issues: [{ path: ['decisions', 'bearing'], message: 'Item 3 (Swivel bearing preload) needs item 1 (Swivel housing seal — left)' }],
+      message,
+      issues: [{ path: ['decisions', otherItem], message: `Item 3 (Swivel bearing preload) needs ${seals}` }],
     })
     expect(w.written.saved).toEqual([])
   })
@@ -263,7 +232,7 @@ describe('confirming the decisions', () => {
     expect(confirmed.confirmation).toMatchObject({ decisions: decided, approvedGross: result.approved.gross })
     expect(confirmed.result).toEqual(result)
     expect(w.written.jobMoves).toEqual([])
-    expect(w.written.emails.map((e) => e.kind)).toEqual(['estimate.confirmed', 'estimate.confirmed.copy'])
+    expect(w.emails.map((e) => e.kind)).toEqual(['estimate.confirmed', 'estimate.confirmed.copy'])
     expect(w.written.audit.map((a) => a.entry.action)).toEqual(['estimate.confirmed'])
   })
 
@@ -271,6 +240,13 @@ describe('confirming the decisions', () => {
     const w = world({ stored: { seals: 'declined', uj: 'approved', bearing: 'declined' } })
     await w.service.confirm(ctx, me, w.estimate.id, { version: 1, hash: w.latest.hash, consents })
     expect(w.confirmations.get(w.latest.id)?.confirmation).toMatchObject({ ip: ctx.ip, userAgent: ctx.userAgent, customerId: me.id })
+  })
+
+  it('opens the deposit payment page with the caller’s context once confirmed', async () => {
+    const w = world({ stored: { seals: 'approved', uj: 'approved', bearing: 'approved' } })
+    const { answer } = await w.service.confirm(ctx, me, w.estimate.id, { version: 1, hash: w.latest.hash, consents })
+    expect(await w.service.checkout(ctx, me, w.estimate.id)).toEqual({ url: 'https://pay.example.test/page' })
+    expect(w.written.checkouts).toEqual([{ ctx, confirmationId: answer.confirmationId }])
   })
 
   it('refuses to confirm while an item is undecided, naming it', async () => {

@@ -1,8 +1,20 @@
+import type { AuditEntry } from '../../lib/audit'
 import { NotFoundError } from '../../lib/errors'
 import { estimateLinkUrl } from './estimate-links'
 import type { PortalRepo, Tx, VersionRow } from './portal.repo'
+import type { AuditAction } from '../../../shared/schemas/audit'
 
 /** What leads a customer to an estimate: its addresses, a fresh link, and the answer when it is not theirs. */
+
+/** The audit entry of something done to one estimate of the caller's workshop. */
+export function estimateEntry(workshopId: string, estimateId: string, action: AuditAction, details: Record<string, unknown>): AuditEntry {
+  return { action, workshopId, subject: { type: 'estimate', id: estimateId }, details }
+}
+
+/** The same, about one sent version: its reference and number lead the details. */
+export function versionEntry(v: VersionRow, action: AuditAction, details: Record<string, unknown>): AuditEntry {
+  return estimateEntry(v.workshopId, v.estimateId, action, { reference: v.snapshot.reference, version: v.version, ...details })
+}
 
 /** Another customer's estimate is simply not there. */
 export const notYours = () => new NotFoundError('No such estimate.')

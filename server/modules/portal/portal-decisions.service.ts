@@ -14,10 +14,10 @@ import {
   refuseConfirmed,
   refuseUndecided,
 } from './decision-rules'
-import { notYours, portalUrls } from './portal-access'
+import { notYours, portalUrls, versionEntry } from './portal-access'
 import { confirmationOf, depositOf, questionOf, statusOf } from './portal-answers'
-import { confirmationCopyEmail, confirmationEmail } from './portal.emails'
-import type { PortalRepo, Tx } from './portal.repo'
+import { confirmationCopyEmail, confirmationEmail, fromWorkshop } from './portal.emails'
+import type { PortalRepoPart, Tx } from './portal.repo'
 import { formatMoney } from '../../../shared/money'
 import type { CustomerPrincipal } from '../../../shared/schemas/auth'
 import type {
@@ -35,10 +35,7 @@ export interface DepositCheckout {
 }
 
 export interface PortalDecisionsDeps {
-  repo: Pick<
-    PortalRepo,
-    | 'db'
-    | 'transaction'
+  repo: PortalRepoPart<
     | 'estimate'
     | 'versions'
     | 'lockEstimate'
@@ -52,8 +49,6 @@ export interface PortalDecisionsDeps {
     | 'setJobStatus'
     | 'questions'
     | 'photo'
-    | 'recordAudit'
-    | 'publishLive'
   >
   outbox: EmailOutbox
   deposits: DepositCheckout
@@ -150,18 +145,15 @@ export function createPortalDecisionsService(deps: PortalDecisionsDeps) {
         refuseBrokenRequirement(s, item, next)
         await repo.saveDecision(tx, { workshopId: me.workshop.id, versionId: version.id, itemId, decision: input.decision })
         const result = priced(s, next, 'That choice cannot be priced. Please contact the workshop.')
-        await repo.recordAudit(tx, ctx, {
-          action: 'estimate.decided',
-          workshopId: me.workshop.id,
-          subject: { type: 'estimate', id: estimateId },
-          details: {
-            reference: s.reference,
-            version: version.version,
+        await repo.recordAudit(
+          tx,
+          ctx,
+          versionEntry(version, 'estimate.decided', {
             item: `${item.number}: ${item.title}`,
             decision: input.decision,
             approvedGross: result.approved.gross,
-          },
-        })
+          }),
+        )
         const verb = { approved: 'approved', declined: 'declined', pending: 'undid their choice on' }[input.decision]
         await repo.publishLive(tx, {
           type: 'estimate.decision',
@@ -240,21 +232,18 @@ export function createPortalDecisionsService(deps: PortalDecisionsDeps) {
             'in_work',
           )
         const money = (minor: number) => formatMoney(minor, result.currency)
-        await repo.recordAudit(tx, ctx, {
-          action: 'estimate.confirmed',
-          workshopId: me.workshop.id,
-          subject: { type: 'estimate', id: estimateId },
-          details: {
-            reference: s.reference,
-            version: version.version,
+        await repo.recordAudit(
+          tx,
+          ctx,
+          versionEntry(version, 'estimate.confirmed', {
             hash: version.hash,
             approved: Object.values(decisions).filter((d) => d === 'approved').length,
             declined: Object.values(decisions).filter((d) => d === 'declined').length,
             approvedGross: result.approved.gross,
             depositMinor: result.approved.deposit,
             startWithinCancellationPeriod: input.consents.startWithinCancellationPeriod,
-          },
-        })
+          }),
+        )
         await repo.publishLive(tx, {
           type: 'estimate.confirmed',
           workshopId: me.workshop.id,
@@ -279,11 +268,8 @@ export function createPortalDecisionsService(deps: PortalDecisionsDeps) {
             estimateId,
             kind: 'estimate.confirmed',
             to: me.email,
-            subject: toCustomer.subject,
-            text: toCustomer.text,
-            html: toCustomer.html,
-            replyTo: s.workshop.email,
-            fromName: s.workshop.name,
+            ...toCustomer,
+            ...fromWorkshop(s),
             attachments: [{ type: 'estimate-pdf', versionId: version.id, filename: `${s.reference}-v${version.version}.pdf` }],
           },
           tx,
@@ -296,9 +282,7 @@ export function createPortalDecisionsService(deps: PortalDecisionsDeps) {
               estimateId,
               kind: 'estimate.confirmed.copy',
               to: s.workshop.email,
-              subject: copy.subject,
-              text: copy.text,
-              html: copy.html,
+              ...copy,
               replyTo: me.email,
             },
             tx,

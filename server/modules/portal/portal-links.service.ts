@@ -5,26 +5,13 @@ import { BadRequestError, GoneError } from '../../lib/errors'
 import { hashToken } from '../../lib/tokens'
 import type { EmailOutbox } from '../email/outbox'
 import { freshLink, portalUrls } from './portal-access'
-import { renewedLinkEmail } from './portal.emails'
-import type { PortalRepo } from './portal.repo'
+import { fromWorkshop, renewedLinkEmail } from './portal.emails'
+import type { PortalRepoPart } from './portal.repo'
 import type { CustomerPrincipal, Principal } from '../../../shared/schemas/auth'
 import type { LinkRefusalDetails } from '../../../shared/schemas/portal'
 
 export interface PortalLinksDeps {
-  repo: Pick<
-    PortalRepo,
-    | 'db'
-    | 'transaction'
-    | 'linkByHash'
-    | 'versions'
-    | 'touchLink'
-    | 'markOpened'
-    | 'customer'
-    | 'linkExpiry'
-    | 'issueLink'
-    | 'recordAudit'
-    | 'publishLive'
-  >
+  repo: PortalRepoPart<'linkByHash' | 'versions' | 'touchLink' | 'markOpened' | 'customer' | 'linkExpiry' | 'issueLink'>
   outbox: EmailOutbox
   env: Pick<Env, 'PUBLIC_BASE_URL'>
   logger: Logger
@@ -126,11 +113,8 @@ export function createPortalLinksService(deps: PortalLinksDeps) {
               estimateId: estimate.id,
               kind: 'estimate.link_renewed',
               to: customer.email,
-              subject: mail.subject,
-              text: mail.text,
-              html: mail.html,
-              replyTo: latest.snapshot.workshop.email,
-              fromName: latest.snapshot.workshop.name,
+              ...mail,
+              ...fromWorkshop(latest.snapshot),
             },
             tx,
           )

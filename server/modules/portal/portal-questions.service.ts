@@ -3,29 +3,16 @@ import type { AuditContext } from '../../lib/audit'
 import { GoneError, NotFoundError } from '../../lib/errors'
 import type { EmailOutbox } from '../email/outbox'
 import { itemOf } from './decision-rules'
-import { freshLink, notYours, portalUrls } from './portal-access'
+import { estimateEntry, freshLink, notYours, portalUrls, versionEntry } from './portal-access'
 import { staffQuestionOf } from './portal-answers'
-import { answerEmail, questionEmail } from './portal.emails'
-import type { PortalRepo } from './portal.repo'
+import { answerEmail, fromWorkshop, questionEmail } from './portal.emails'
+import type { PortalRepoPart } from './portal.repo'
 import type { CustomerPrincipal, StaffPrincipal } from '../../../shared/schemas/auth'
 import type { AnswerQuestion, AskQuestion, PortalQuestion, StaffQuestion } from '../../../shared/schemas/portal'
 
 export interface PortalQuestionsDeps {
-  repo: Pick<
-    PortalRepo,
-    | 'db'
-    | 'transaction'
-    | 'estimate'
-    | 'versions'
-    | 'customer'
-    | 'questions'
-    | 'insertQuestion'
-    | 'lockQuestion'
-    | 'answerQuestion'
-    | 'linkExpiry'
-    | 'issueLink'
-    | 'recordAudit'
-    | 'publishLive'
+  repo: PortalRepoPart<
+    'estimate' | 'versions' | 'customer' | 'questions' | 'insertQuestion' | 'lockQuestion' | 'answerQuestion' | 'linkExpiry' | 'issueLink'
   >
   outbox: EmailOutbox
   env: Pick<Env, 'PUBLIC_BASE_URL'>
@@ -63,20 +50,20 @@ export function createPortalQuestionsService(deps: PortalQuestionsDeps) {
               estimateId,
               kind: 'estimate.question',
               to: s.workshop.email,
-              subject: mail.subject,
-              text: mail.text,
-              html: mail.html,
+              ...mail,
               replyTo: me.email,
             },
             tx,
           )
         }
-        await repo.recordAudit(tx, ctx, {
-          action: 'estimate.question_asked',
-          workshopId: me.workshop.id,
-          subject: { type: 'estimate', id: estimateId },
-          details: { reference: s.reference, version: latest.version, item: `${item.number}: ${item.title}`, questionId: row.id },
-        })
+        await repo.recordAudit(
+          tx,
+          ctx,
+          versionEntry(latest, 'estimate.question_asked', {
+            item: `${item.number}: ${item.title}`,
+            questionId: row.id,
+          }),
+        )
         await repo.publishLive(tx, {
           type: 'estimate.question',
           workshopId: me.workshop.id,
@@ -136,26 +123,22 @@ export function createPortalQuestionsService(deps: PortalQuestionsDeps) {
               estimateId,
               kind: 'estimate.question_answered',
               to: customer.email,
-              subject: mail.subject,
-              text: mail.text,
-              html: mail.html,
-              replyTo: latest.snapshot.workshop.email,
-              fromName: latest.snapshot.workshop.name,
+              ...mail,
+              ...fromWorkshop(latest.snapshot),
             },
             tx,
           )
         }
-        await repo.recordAudit(tx, ctx, {
-          action: 'estimate.question_answered',
-          workshopId: me.workshop.id,
-          subject: { type: 'estimate', id: estimateId },
-          details: {
+        await repo.recordAudit(
+          tx,
+          ctx,
+          estimateEntry(me.workshop.id, estimateId, 'estimate.question_answered', {
             reference: latest.snapshot.reference,
             questionId,
             item: item ? `${item.number}: ${item.title}` : question.itemId,
             customer: customer?.name ?? null,
-          },
-        })
+          }),
+        )
         await repo.publishLive(tx, {
           type: 'estimate.question',
           workshopId: me.workshop.id,

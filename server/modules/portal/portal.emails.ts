@@ -17,6 +17,9 @@ const workshopFooter = (s: EstimateSnapshot): Block => ({
 
 const versionWords = (s: EstimateSnapshot) => `${s.reference}${s.version > 1 ? ` (version ${s.version})` : ''}`
 
+/** A message to the customer comes from the workshop: under its name, and replies go to its address. */
+export const fromWorkshop = (s: EstimateSnapshot) => ({ replyTo: s.workshop.email, fromName: s.workshop.name })
+
 export const itemWords = (item: Pick<SnapshotItem, 'number' | 'title'>) => `item ${item.number} (${item.title})`
 
 /** The fresh link asked for from an expired or replaced one. */

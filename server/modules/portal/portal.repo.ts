@@ -298,6 +298,11 @@ export function createPortalRepo(db: Database) {
 }
 
 export type PortalRepo = ReturnType<typeof createPortalRepo>
+/**
+ * The part of the repo a portal service is given: reads, transactions, the audit log and live
+ * events, and the queries it names; a unit test fakes just that part.
+ */
+export type PortalRepoPart<K extends keyof PortalRepo> = Pick<PortalRepo, 'db' | 'transaction' | 'recordAudit' | 'publishLive' | K>
 /** A version's confirmation with its deposit, when one has been asked for. */
 export type ConfirmedRow = NonNullable<Awaited<ReturnType<PortalRepo['confirmation']>>>
 export type QuestionRow = Awaited<ReturnType<PortalRepo['questions']>>[number]

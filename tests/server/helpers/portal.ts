@@ -1,9 +1,10 @@
 import { eq, sql } from 'drizzle-orm'
 import type { Express } from 'express'
 import sharp from 'sharp'
-import type { Database } from '../../../server/db/client'
+import type { Database, Tx } from '../../../server/db/client'
 import { customers, estimateVersions, findings, jobs, photos, vehicles } from '../../../server/db/schema'
 import type { FileStorage } from '../../../server/lib/storage'
+import type { EmailOutbox, OutboundMessage } from '../../../server/modules/email/outbox'
 import { buildSnapshot, snapshotHash } from '../../../server/modules/estimates/estimate-snapshot'
 import { issueEstimateLink, revokeEstimateLinks } from '../../../server/modules/portal/estimate-links.repo'
 import { calculateEstimate } from '../../../shared/estimate'
@@ -90,6 +91,22 @@ export function portalDraft(overrides: Partial<EstimateDraft> = {}): EstimateDra
 }
 
 export const WORKSHOP_EMAIL = 'desk@portal-fixture.test'
+
+/** The query handle a fake repository is given: it never looks at it, the service only hands it back. */
+export const fakeTx = {} as Tx
+
+/** An outbox that keeps what it is asked to send, for tests of services on fake repositories. */
+export function fakeOutbox(): EmailOutbox & { queued: OutboundMessage[] } {
+  const queued: OutboundMessage[] = []
+  return {
+    queued,
+    queue: async (message) => {
+      queued.push(message)
+      return { id: `email-${queued.length}` }
+    },
+    resend: async () => undefined,
+  }
+}
 
 /** `portalDraft()` frozen as sending would freeze it, without the database: for tests of services on fake repositories. */
 export function portalSnapshot(opts: {
