@@ -1,12 +1,11 @@
-import { type SQL, and, eq, sql } from 'drizzle-orm'
 import type PgBoss from 'pg-boss'
 import type { Logger } from 'pino'
 import type { Database } from '../../db/client'
-import { outboundEmails } from '../../db/schema'
 import { NotFoundError } from '../../lib/errors'
 import { publishLive } from '../../lib/live-publish'
 import type { MailMessage, Mailer } from '../../lib/mailer'
-import { type JobQueue, QUEUE_SCHEMA } from '../../lib/queue'
+import type { JobQueue } from '../../lib/queue'
+import { type EmailRow, type Executor, type Writer, bossExecutor, createOutboxRepo } from './outbox.repo'
 
 /**
  * The outbox: every e-mail sent on a workshop's behalf is written to outbound_emails and handed
@@ -35,7 +34,7 @@ export interface EmailOutbox {
    * Records the message and queues it. Pass the caller's transaction so the message exists only
    * if the change it reports is committed.
    */
-  queue(message: OutboundMessage, tx?: Pick<Database, 'insert' | 'execute'>): Promise<{ id: string }>
+  queue(message: OutboundMessage, tx?: Writer): Promise<{ id: string }>
   /** Queues a failed or sent message again (the advisor's "Send again"); one still queued is left to the job it has. */
   resend(workshopId: string, emailId: string): Promise<void>
 }
@@ -88,9 +87,6 @@ interface EmailJob {
   emailId: string
 }
 
-type Executor = Pick<Database, 'execute'>
-type Row = typeof outboundEmails.$inferSelect
-
 const uuidPattern = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i
 
 function settings(deps: OutboxDeps) {
@@ -105,41 +101,20 @@ function settings(deps: OutboxDeps) {
   }
 }
 
-/**
- * pg-boss runs its SQL through whatever executor it is given. Handing it the caller's
- * transaction makes the job part of that transaction: a worker cannot see it before the
- * e-mail's row is committed, and a rollback removes both. (Enqueueing after commit instead
- * would lose the message if the process stopped in between.)
- */
-function bossExecutor(q: Executor): PgBoss.Db {
-  return {
-    async executeSql(text: string, values: unknown[] = []) {
-      const chunks: SQL[] = []
-      let from = 0
-      for (const m of text.matchAll(/\$(\d+)/g)) {
-        chunks.push(sql.raw(text.slice(from, m.index)), sql`${sql.param(values[Number(m[1]) - 1])}`)
-        from = m.index + m[0].length
-      }
-      chunks.push(sql.raw(text.slice(from)))
-      const result = await q.execute(sql.join(chunks))
-      return { rows: result.rows }
-    },
-  }
-}
-
 async function enqueue(q: Executor, boss: PgBoss, s: ReturnType<typeof settings>, emailId: string) {
   const jobId = await boss.send(s.queueName, { emailId } satisfies EmailJob, { ...s.jobOptions, db: bossExecutor(q) })
   // pg-boss answers null rather than failing when the queue does not exist.
   if (!jobId) throw new Error(`The job queue "${s.queueName}" did not accept the e-mail`)
 }
 
-async function announce(q: Executor, row: Pick<Row, 'workshopId' | 'estimateId' | 'to'>, summary: string) {
+async function announce(q: Executor, row: Pick<EmailRow, 'workshopId' | 'estimateId' | 'to'>, summary: string) {
   if (!row.estimateId) return
   await publishLive(q, { type: 'email.status', workshopId: row.workshopId, estimateId: row.estimateId, summary: summary.slice(0, 300) })
 }
 
 export function createEmailOutbox(deps: OutboxDeps): EmailOutbox {
   const { db, jobs } = deps
+  const repo = createOutboxRepo(db)
   const s = settings(deps)
 
   return {
@@ -153,46 +128,35 @@ export function createEmailOutbox(deps: OutboxDeps): EmailOutbox {
         fromName: message.fromName ?? null,
         attachments: message.attachments ?? [],
       }
-      const write = async (q: Pick<Database, 'insert' | 'execute'>) => {
-        const [row] = await q
-          .insert(outboundEmails)
-          .values({
-            workshopId: message.workshopId,
-            estimateId: message.estimateId ?? null,
-            kind: message.kind,
-            to: message.to,
-            subject: message.subject,
-            message: { ...stored },
-          })
-          .returning({ id: outboundEmails.id })
-        if (!row) throw new Error('outbound e-mail was not recorded')
-        await enqueue(q, jobs.boss, s, row.id)
+      const write = async (q: Writer) => {
+        const id = await repo.insert(q, {
+          workshopId: message.workshopId,
+          estimateId: message.estimateId ?? null,
+          kind: message.kind,
+          to: message.to,
+          subject: message.subject,
+          message: { ...stored },
+        })
+        await enqueue(q, jobs.boss, s, id)
         await announce(
           q,
           { workshopId: message.workshopId, estimateId: message.estimateId ?? null, to: message.to },
           `E-mail to ${message.to} queued`,
         )
-        return { id: row.id }
+        return { id }
       }
-      return tx ? write(tx) : db.transaction(write)
+      return tx ? write(tx) : repo.transaction(write)
     },
 
     async resend(workshopId, emailId) {
       if (!uuidPattern.test(emailId)) throw new NotFoundError('No such e-mail')
       await s.ready()
-      await db.transaction(async (tx) => {
-        const [row] = await tx
-          .select()
-          .from(outboundEmails)
-          .where(and(eq(outboundEmails.id, emailId), eq(outboundEmails.workshopId, workshopId)))
-          .for('update')
+      await repo.transaction(async (tx) => {
+        const row = await repo.lock(tx, workshopId, emailId)
         if (!row) throw new NotFoundError('No such e-mail')
         // A queued message already has a job on its way; a second would send it twice.
         if (row.status === 'queued') return
-        await tx
-          .update(outboundEmails)
-          .set({ status: 'queued', lastError: null, sentAt: null, queuedAt: new Date() })
-          .where(eq(outboundEmails.id, emailId))
+        await repo.markQueuedAgain(tx, emailId)
         await enqueue(tx, jobs.boss, s, emailId)
         await announce(tx, row, `E-mail to ${row.to} queued again`)
       })
@@ -216,7 +180,8 @@ export function shortError(err: unknown): string {
 }
 
 export function createEmailWorker(deps: EmailWorkerDeps): EmailWorker {
-  const { db, jobs, mailer, logger } = deps
+  const { jobs, mailer, logger } = deps
+  const repo = createOutboxRepo(deps.db)
   const s = settings(deps)
   const sweepMs = (deps.sweepIntervalSeconds ?? 60) * 1000
   let started = false
@@ -225,7 +190,7 @@ export function createEmailWorker(deps: EmailWorkerDeps): EmailWorker {
   let sweepTimer: NodeJS.Timeout | undefined
   const workerIds: string[] = []
 
-  async function render(row: Row, attachments: OutboundAttachment[]): Promise<NonNullable<MailMessage['attachments']>> {
+  async function render(row: EmailRow, attachments: OutboundAttachment[]): Promise<NonNullable<MailMessage['attachments']>> {
     const rendered = []
     for (const a of attachments) {
       const renderer = deps.attachments[a.type]
@@ -240,7 +205,7 @@ export function createEmailWorker(deps: EmailWorkerDeps): EmailWorker {
   }
 
   async function deliver(job: PgBoss.JobWithMetadata<EmailJob>) {
-    const [row] = await db.select().from(outboundEmails).where(eq(outboundEmails.id, job.data.emailId))
+    const row = await repo.byId(job.data.emailId)
     // Sent, failed or gone in the meantime: nothing to do, and nothing to retry.
     if (!row || row.status !== 'queued') return
     const stored = row.message as unknown as StoredMessage
@@ -257,22 +222,16 @@ export function createEmailWorker(deps: EmailWorkerDeps): EmailWorker {
     } catch (err) {
       const reason = shortError(err)
       const last = job.retryCount >= job.retryLimit
-      await db.transaction(async (tx) => {
-        await tx
-          .update(outboundEmails)
-          .set({ attempts: sql`${outboundEmails.attempts} + 1`, lastError: reason, status: last ? 'failed' : 'queued' })
-          .where(and(eq(outboundEmails.id, row.id), eq(outboundEmails.status, 'queued')))
+      await repo.transaction(async (tx) => {
+        await repo.recordFailure(tx, row.id, reason, last)
         if (last) await announce(tx, row, `E-mail to ${row.to} could not be sent: ${reason}`)
       })
       logger.warn({ emailId: row.id, attempt: job.retryCount + 1, last, reason }, 'e-mail not sent')
       // Thrown again so pg-boss schedules the next attempt with its backoff (or records the job as failed).
       throw new Error(reason, { cause: err })
     }
-    await db.transaction(async (tx) => {
-      await tx
-        .update(outboundEmails)
-        .set({ attempts: sql`${outboundEmails.attempts} + 1`, lastError: null, status: 'sent', sentAt: new Date() })
-        .where(eq(outboundEmails.id, row.id))
+    await repo.transaction(async (tx) => {
+      await repo.recordSent(tx, row.id)
       await announce(tx, row, `E-mail to ${row.to} sent`)
     })
   }
@@ -284,23 +243,13 @@ export function createEmailWorker(deps: EmailWorkerDeps): EmailWorker {
    */
   async function sweep(): Promise<number> {
     await s.ready()
-    return db.transaction(async (tx) => {
+    return repo.transaction(async (tx) => {
       // One process sweeps at a time; the others skip rather than queue the same row twice.
-      const locked = await tx.execute<{ locked: boolean }>(
-        sql`select pg_try_advisory_xact_lock(hashtext('tickover.email-outbox.sweep')) as locked`,
-      )
-      if (!locked.rows[0]?.locked) return 0
-      const orphans = await tx.execute<{ id: string }>(sql`
-        select e.id from outbound_emails e
-        where e.status = 'queued'
-          and not exists (
-            select 1 from ${sql.identifier(QUEUE_SCHEMA)}.job j
-            where j.data->>'emailId' = e.id::text and j.state in ('created', 'retry', 'active'))
-        order by e.queued_at
-        limit 200`)
-      for (const { id } of orphans.rows) await enqueue(tx, jobs.boss, s, id)
-      if (orphans.rows.length) logger.warn({ count: orphans.rows.length }, 'queued e-mails without a job were queued again')
-      return orphans.rows.length
+      if (!(await repo.trySweepLock(tx))) return 0
+      const orphans = await repo.orphans(tx, 200)
+      for (const id of orphans) await enqueue(tx, jobs.boss, s, id)
+      if (orphans.length) logger.warn({ count: orphans.length }, 'queued e-mails without a job were queued again')
+      return orphans.length
     })
   }
 
