@@ -219,7 +219,7 @@ describe('deciding on an item', () => {
 describe('confirming the decisions', () => {
   const consents = { startWithinCancellationPeriod: true, cancellationInformationShown: true } as const
 
-  it('records where the confirmation came from and the engine’s figures, and leaves the job until the deposit is paid', async () => {
+  it('freezes the decisions with the engine’s figures, e-mails both sides, and leaves the job until the deposit is paid', async () => {
     const decided = { seals: 'approved', uj: 'declined', bearing: 'approved' } as const
     const w = world({ stored: decided })
     const { created, answer } = await w.service.confirm(ctx, me, w.estimate.id, { version: 1, hash: w.latest.hash, consents })
