@@ -49,7 +49,6 @@ import { createDepositRefundService } from './modules/payments/deposit-refund.se
 import { createDepositWebhookService } from './modules/payments/deposit-webhook.service'
 import { createDepositsRepo } from './modules/payments/deposits.repo'
 import { paymentsRoutes, paymentsWebhookRoutes } from './modules/payments/payments.routes'
-import { renderVersionPdf } from './modules/estimates/estimate-document'
 import { type FileStorage, createLocalStorage } from './lib/storage'
 import { type LiveHub, createLiveHub } from './lib/live-hub'
 import { liveRoutes } from './modules/live/live.routes'
@@ -217,8 +216,7 @@ export function createApp(deps: AppDeps): express.Express {
         env,
       }),
       questions: portalQuestions,
-      // Until the estimates module's document service lands, the PDF comes straight from its renderer.
-      documents: { renderVersion: (workshopId, versionId) => renderVersionPdf(db, workshopId, versionId) },
+      documents,
       limits: createRenewLimits(env, pool),
     }),
     estimateQuestionRoutes(table, portalQuestions),
