@@ -1,9 +1,7 @@
 import express from 'express'
-import { IdParamsSchema } from '../../../shared/schemas/common'
 import { auditContextOf } from '../../lib/audit'
+import { answerById } from '../../lib/record-routes'
 import { type RouteTable, anyone, staffWith } from '../../lib/route-table'
-import { staffOf } from '../../middleware/auth'
-import { handle } from '../../middleware/validate'
 import type { DepositRefundService } from './deposit-refund.service'
 import type { DepositWebhookService } from './deposit-webhook.service'
 
@@ -29,9 +27,7 @@ export function paymentsRoutes(table: RouteTable, service: DepositRefundService)
   g.post(
     '/:id/deposit/refund',
     staffWith('estimates:write'),
-    handle({ params: IdParamsSchema }, async (req, res) => {
-      res.json(await service.refund(auditContextOf(req), staffOf(req), req.params.id))
-    }),
+    answerById(({ id, me, ctx }) => service.refund(ctx, me, id)),
   )
   return g
 }

@@ -1,9 +1,10 @@
 import { auditContextOf } from '../../lib/audit'
+import { answerById } from '../../lib/record-routes'
 import { type RouteTable, staffWith } from '../../lib/route-table'
 import { staffOf } from '../../middleware/auth'
 import { handle } from '../../middleware/validate'
 import type { PortalQuestionsService } from './portal-questions.service'
-import { AnswerQuestionSchema, PortalEstimateParamsSchema, QuestionParamsSchema } from '../../../shared/schemas/portal'
+import { AnswerQuestionSchema, QuestionParamsSchema } from '../../../shared/schemas/portal'
 
 /** The workshop's side of customers' questions: read them with the estimate, answer by e-mail with a link back. */
 export function estimateQuestionRoutes(table: RouteTable, service: PortalQuestionsService) {
@@ -12,9 +13,7 @@ export function estimateQuestionRoutes(table: RouteTable, service: PortalQuestio
   g.get(
     '/:id/questions',
     staffWith('estimates:read'),
-    handle({ params: PortalEstimateParamsSchema }, async (req, res) => {
-      res.json({ items: await service.staffQuestions(staffOf(req), req.params.id) })
-    }),
+    answerById(async ({ id, me }) => ({ items: await service.staffQuestions(me, id) })),
   )
 
   g.post(
