@@ -3,7 +3,8 @@ import type { Env } from '../../env'
 import type { AuditContext } from '../../lib/audit'
 import { ConflictError, NotFoundError, ValidationError, type ErrorIssue } from '../../lib/errors'
 import type { EmailOutbox } from '../email/outbox'
-import { estimateLinkUrl, issueEstimateLink, linkExpiry, revokeEstimateLinks } from '../portal/estimate-links'
+import { estimateLinkUrl } from '../portal/estimate-links'
+import type { EstimateLinks } from '../portal/estimate-links.repo'
 import type { EstimateRow, EstimatesRepo, FindingRecord, Queryable, Tx } from './estimates.repo'
 import { estimateDetail, estimateSummary } from './estimate-detail'
 import type { EstimateItems } from './estimate-items'
@@ -27,20 +28,6 @@ import {
   type SendEstimate,
 } from '../../../shared/schemas/estimates'
 import { calculateEstimate, safeCalculateEstimate } from '../../../shared/estimate'
-
-/** The customer's links to sent versions, as sending and withdrawing use them. */
-export interface EstimateLinks {
-  /** Revokes every live link of the estimate's versions, except those of `keepVersionId`. */
-  revoke(tx: Tx, workshopId: string, estimateId: string, keepVersionId?: string): Promise<void>
-  /** A new link to the version, working until the end of its decision day; answers the token. */
-  issue(tx: Tx, link: { workshopId: string; versionId: string; customerId: string }): Promise<string>
-}
-
-/** The portal's links, stored in the database. */
-export const storedEstimateLinks: EstimateLinks = {
-  revoke: revokeEstimateLinks,
-  issue: async (tx, link) => issueEstimateLink(tx, { ...link, expiresAt: await linkExpiry(tx, link.workshopId, link.versionId) }),
-}
 
 export interface EstimatesServiceDeps {
   repo: EstimatesRepo

@@ -49,3 +49,16 @@ export async function linkExpiry(q: Queryable, workshopId: string, versionId: st
   if (!at) throw new Error('version vanished while issuing a link')
   return new Date(at)
 }
+
+/** The customer's links to sent versions, as sending and withdrawing an estimate use them. */
+export interface EstimateLinks {
+  /** Revokes every live link of the estimate's versions, except those of `keepVersionId`. */
+  revoke(tx: Queryable, workshopId: string, estimateId: string, keepVersionId?: string): Promise<void>
+  /** A new link to the version, working until the end of its decision day; answers the token. */
+  issue(tx: Queryable, link: { workshopId: string; versionId: string; customerId: string }): Promise<string>
+}
+
+export const storedEstimateLinks: EstimateLinks = {
+  revoke: revokeEstimateLinks,
+  issue: async (tx, link) => issueEstimateLink(tx, { ...link, expiresAt: await linkExpiry(tx, link.workshopId, link.versionId) }),
+}
