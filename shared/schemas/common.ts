@@ -1,5 +1,45 @@
 import { z } from 'zod'
 
+/**
+ * Characters no text field takes: C0 controls (NUL among them, which PostgreSQL refuses in text) and DEL,
+ * except tab, and line breaks where the field is multi-line; C1 controls; lone UTF-16 surrogates.
+ */
+const controlCharacters = /[\u0000-\u0008\u000B\u000C\u000E-\u001F\u007F-\u009F]/
+const controlOrBreak = /[\u0000-\u0008\u000A-\u001F\u007F-\u009F]/
+const loneSurrogate = /[\uD800-\uDBFF](?![\uDC00-\uDFFF])|(?<![\uD800-\uDBFF])[\uDC00-\uDFFF]/
+
+/**
+ * Text a person types, checked so that it can always be stored and shown: no control characters, at most
+ * `max` characters. Every text field of every contract is built on this, so no input can reach the database
+ * as something it refuses. Trimmed unless `trim: false`.
+ */
+export function safeText(opts: { max: number; min?: number; multiline?: boolean; trim?: boolean; label?: string }) {
+  const what = opts.label ?? 'This'
+  const base = opts.trim === false ? z.string() : z.string().trim()
+  return base
+    .max(opts.max, `${what} can be at most ${opts.max} characters`)
+    .min(opts.min ?? 0, opts.min === 1 ? `${what} cannot be empty` : `${what} needs at least ${opts.min} characters`)
+    .refine((v) => !(opts.multiline ? controlCharacters : controlOrBreak).test(v), {
+      message: opts.multiline
+        ? `${what} contains a control character; type or paste plain text`
+        : `${what} contains a line break or control character; keep it on one line`,
+    })
+    .refine((v) => !loneSurrogate.test(v), { message: `${what} contains a broken character; type it again` })
+}
+
+/** PostgreSQL's integer (int4) range: every whole number stored in an integer column is checked against it. */
+export const INT4_MAX = 2_147_483_647
+export const INT4_MIN = -2_147_483_648
+
+/** A whole number that fits an integer column, within `min`..`max` (defaults: the column's own range). */
+export function int4(opts: { min?: number; max?: number } = {}) {
+  return z
+    .number()
+    .int()
+    .min(opts.min ?? INT4_MIN)
+    .max(opts.max ?? INT4_MAX)
+}
+
 export const IdParamsSchema = z.object({ id: z.uuid({ error: 'Not a valid id' }) })
 
 /** Server-side paged, sorted, searched lists share this query shape. */
