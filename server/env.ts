@@ -8,6 +8,12 @@ const booleanish = z.enum(['true', 'false', '1', '0', 'yes', 'no']).transform((v
 export const LOCAL_STRIPE_SECRET_KEY = 'sk_test_local_payments_fake'
 export const LOCAL_STRIPE_WEBHOOK_SECRET = 'whsec_local_payments_fake'
 
+/** What docker-free-dev/start.ts gives the SMS fake: well-formed, and no account at Twilio (createSmsClient refuses to send them there). */
+export const LOCAL_TWILIO_ACCOUNT_SID = `AC${'0'.repeat(32)}`
+export const LOCAL_TWILIO_AUTH_TOKEN = '0'.repeat(32)
+/** Twilio's test sender that passes every check (Twilio docs, "Test Credentials"); the SMS fake honours it too. */
+export const LOCAL_TWILIO_FROM = '+15005550006'
+
 export const EnvSchema = z
   .object({
     NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),
@@ -65,6 +71,24 @@ export const EnvSchema = z
     STRIPE_API_BASE: z.url({ protocol: /^https?$/ }).optional(),
     /** Set by the local scripts when they run the payments fake; used as STRIPE_API_BASE when that is unset. */
     PAYMENTS_FAKE_URL: z.url({ protocol: /^https?$/ }).optional(),
+    /** Text messages. Outside production, credentials that only the local SMS fake accepts are used when unset. */
+    TWILIO_ACCOUNT_SID: z
+      .string()
+      .regex(/^AC[0-9a-f]{32}$/, 'must be a Twilio account SID (AC and 32 hex digits)')
+      .optional(),
+    TWILIO_AUTH_TOKEN: z
+      .string()
+      .regex(/^[0-9a-f]{32}$/, 'must be a Twilio auth token (32 hex digits)')
+      .optional(),
+    /** The sender: a phone number in E.164 or a Messaging Service SID; outside production Twilio's test sender when unset. */
+    TWILIO_FROM: z
+      .string()
+      .regex(/^(\+[1-9]\d{1,14}|MG[0-9a-f]{32})$/, 'must be a phone number in E.164 (+447700900123) or a Messaging Service SID (MG…)')
+      .optional(),
+    /** Another address for the Twilio API (the local SMS fake); unset, the SDK talks to Twilio. */
+    TWILIO_API_BASE: z.url({ protocol: /^https?$/ }).optional(),
+    /** Set by the local scripts when they run the SMS fake; used as TWILIO_API_BASE outside production when that is unset. */
+    SMS_FAKE_URL: z.url({ protocol: /^https?$/ }).optional(),
   })
   .superRefine((env, ctx) => {
     if (env.NODE_ENV === 'production' && !env.AUTH_SECRET && env.PUBLIC_BASE_URL?.startsWith('https:')) {
@@ -75,6 +99,9 @@ export const EnvSchema = z
       ctx.addIssue({ code: 'custom', path: ['STRIPE_SECRET_KEY'], message: 'is required in production' })
     if (env.NODE_ENV === 'production' && !env.STRIPE_WEBHOOK_SECRET)
       ctx.addIssue({ code: 'custom', path: ['STRIPE_WEBHOOK_SECRET'], message: 'is required in production' })
+    for (const field of ['TWILIO_ACCOUNT_SID', 'TWILIO_AUTH_TOKEN', 'TWILIO_FROM'] as const)
+      if (env.NODE_ENV === 'production' && !env[field])
+        ctx.addIssue({ code: 'custom', path: [field], message: 'is required in production' })
   })
   .transform((env) => {
     const publicBaseUrl = (env.PUBLIC_BASE_URL ?? `http://127.0.0.1:${env.PORT}`).replace(/\/$/, '')
@@ -86,6 +113,11 @@ export const EnvSchema = z
       STRIPE_SECRET_KEY: env.STRIPE_SECRET_KEY ?? LOCAL_STRIPE_SECRET_KEY,
       STRIPE_WEBHOOK_SECRET: env.STRIPE_WEBHOOK_SECRET ?? LOCAL_STRIPE_WEBHOOK_SECRET,
       STRIPE_API_BASE: env.STRIPE_API_BASE ?? env.PAYMENTS_FAKE_URL,
+      TWILIO_ACCOUNT_SID: env.TWILIO_ACCOUNT_SID ?? LOCAL_TWILIO_ACCOUNT_SID,
+      TWILIO_AUTH_TOKEN: env.TWILIO_AUTH_TOKEN ?? LOCAL_TWILIO_AUTH_TOKEN,
+      TWILIO_FROM: env.TWILIO_FROM ?? LOCAL_TWILIO_FROM,
+      // A production server texts through Twilio unless told otherwise, whatever fake a local script left in the environment.
+      TWILIO_API_BASE: env.TWILIO_API_BASE ?? (env.NODE_ENV === 'production' ? undefined : env.SMS_FAKE_URL),
       COOKIE_SECURE: env.COOKIE_SECURE ?? publicBaseUrl.startsWith('https:'),
       ALLOWED_ORIGINS: [
         new URL(publicBaseUrl).origin,
