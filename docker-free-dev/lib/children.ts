@@ -74,3 +74,26 @@ export function startPaymentsFake(opts: PaymentsFakeOptions): Child {
     opts.quiet,
   )
 }
+
+export interface SmsFakeOptions {
+  port: number
+  /** Time between a message's status changes; the fake's default suits a person watching its page. */
+  stepMs?: number
+  callbackBackoffMs?: number
+  quiet?: boolean
+}
+
+/** The local stand-in for Twilio's Messages API (see docker-free-dev/README.md). */
+export function startSmsFake(opts: SmsFakeOptions): Child {
+  return startChild(
+    'sms',
+    bin('tsx'),
+    [path.join(root, 'docker-free-dev', 'sms-fake', 'main.ts')],
+    {
+      SMS_FAKE_PORT: String(opts.port),
+      ...(opts.stepMs !== undefined ? { SMS_FAKE_STEP_MS: String(opts.stepMs) } : {}),
+      ...(opts.callbackBackoffMs !== undefined ? { SMS_FAKE_CALLBACK_BACKOFF_MS: String(opts.callbackBackoffMs) } : {}),
+    },
+    opts.quiet,
+  )
+}

@@ -2,7 +2,7 @@ import fs from 'node:fs'
 import os from 'node:os'
 import path from 'node:path'
 import { runMigrations } from '../../server/db/migrate'
-import { type Child, projectRoot, startMaildev, startPaymentsFake } from './children'
+import { type Child, projectRoot, startMaildev, startPaymentsFake, startSmsFake } from './children'
 import { getPort, waitForPort } from './ports'
 import { ensureDatabase, startPostgres } from './postgres'
 
@@ -13,7 +13,7 @@ export interface TestServices {
 
 /**
  * A throwaway PostgreSQL (own data folder, free port, a database ending in _test),
- * a mail catcher and the payments fake, for one test run. stop() removes them all.
+ * a mail catcher, the payments fake and the SMS fake, for one test run. stop() removes them all.
  */
 export async function startTestServices(): Promise<TestServices> {
   const children: Child[] = []
@@ -48,6 +48,13 @@ export async function startTestServices(): Promise<TestServices> {
       env.PAYMENTS_FAKE_URL = `http://127.0.0.1:${fakePort}`
       waits.push(waitForPort(fakePort))
     }
+
+    const taken = [smtpPort, mailWebPort, ...(env.PAYMENTS_FAKE_URL ? [Number(new URL(env.PAYMENTS_FAKE_URL).port)] : [])]
+    const smsPort = await getPort({ host: '127.0.0.1', exclude: taken })
+    // Quick status changes and retries, so a test waiting for a text to be delivered waits little.
+    children.push(startSmsFake({ port: smsPort, stepMs: 50, callbackBackoffMs: 100, quiet: true }))
+    env.SMS_FAKE_URL = `http://127.0.0.1:${smsPort}`
+    waits.push(waitForPort(smsPort))
     await Promise.all(waits)
     return { env, stop }
   } catch (err) {
