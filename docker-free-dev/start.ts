@@ -1,5 +1,5 @@
 /**
- * `npm start` / `npm run dev`: PostgreSQL, the mail catcher, the payments fake and the app, all on
+ * `npm start` / `npm run dev`: PostgreSQL, the mail catcher, the payments and SMS fakes and the app, all on
  * 127.0.0.1, with demo data on first run. Ctrl-C stops everything; the data folder (.data/) is kept.
  */
 import { execFileSync } from 'node:child_process'
@@ -9,8 +9,14 @@ import { drizzle } from 'drizzle-orm/node-postgres'
 import { runMigrations } from '../server/db/migrate'
 import * as schema from '../server/db/schema'
 import { seedDemo } from '../server/db/seed'
-import { LOCAL_STRIPE_SECRET_KEY, LOCAL_STRIPE_WEBHOOK_SECRET } from '../server/env'
-import { type Child, bin, projectRoot, startChild, startMaildev, startPaymentsFake } from './lib/children'
+import {
+  LOCAL_STRIPE_SECRET_KEY,
+  LOCAL_STRIPE_WEBHOOK_SECRET,
+  LOCAL_TWILIO_ACCOUNT_SID,
+  LOCAL_TWILIO_AUTH_TOKEN,
+  LOCAL_TWILIO_FROM,
+} from '../server/env'
+import { type Child, bin, projectRoot, startChild, startMaildev, startPaymentsFake, startSmsFake } from './lib/children'
 import { PortInUseError, assertPortFree, waitForPort } from './lib/ports'
 import { type PostgresHandle, ensureDatabase, startPostgres } from './lib/postgres'
 
@@ -23,6 +29,7 @@ const ports = {
   smtp: num('MAILDEV_SMTP_PORT', 1025),
   mailWeb: num('MAILDEV_WEB_PORT', 1080),
   payments: num('PAYMENTS_FAKE_PORT', 12111),
+  sms: num('SMS_FAKE_PORT', 12112),
 }
 const dataDir = path.join(projectRoot, '.data', 'postgres')
 const children: Child[] = []
@@ -43,6 +50,7 @@ async function main() {
   await assertPortFree(ports.smtp, 'mail catcher SMTP', 'MAILDEV_SMTP_PORT')
   await assertPortFree(ports.mailWeb, 'mail catcher web', 'MAILDEV_WEB_PORT')
   await assertPortFree(ports.payments, 'payments fake', 'PAYMENTS_FAKE_PORT')
+  await assertPortFree(ports.sms, 'SMS fake', 'SMS_FAKE_PORT')
   if (dev) await assertPortFree(ports.vite, 'Vite dev server', 'VITE_PORT')
 
   if (!dev) {
@@ -69,6 +77,8 @@ async function main() {
       webhookSecret: LOCAL_STRIPE_WEBHOOK_SECRET,
     }),
   )
+  const smsUrl = `http://127.0.0.1:${ports.sms}`
+  children.push(startSmsFake({ port: ports.sms }))
 
   const appEnv = {
     NODE_ENV: dev ? 'development' : 'production',
@@ -80,6 +90,11 @@ async function main() {
     // `npm start` runs the app as in production, where these have no defaults; here they are the fake's.
     STRIPE_SECRET_KEY: LOCAL_STRIPE_SECRET_KEY,
     STRIPE_WEBHOOK_SECRET: LOCAL_STRIPE_WEBHOOK_SECRET,
+    TWILIO_ACCOUNT_SID: LOCAL_TWILIO_ACCOUNT_SID,
+    TWILIO_AUTH_TOKEN: LOCAL_TWILIO_AUTH_TOKEN,
+    TWILIO_FROM: LOCAL_TWILIO_FROM,
+    TWILIO_API_BASE: smsUrl,
+    SMS_FAKE_URL: smsUrl,
     PUBLIC_BASE_URL: process.env.PUBLIC_BASE_URL ?? `http://127.0.0.1:${dev ? ports.vite : ports.app}`,
     CLIENT_DIST: dev ? '' : path.join(projectRoot, 'dist'),
   }
@@ -94,7 +109,13 @@ async function main() {
   })
   if (dev) children.push(startChild('vite', bin('vite'), ['--port', String(ports.vite), '--strictPort'], { PORT: String(ports.app) }))
 
-  await Promise.all([waitForPort(ports.app), waitForPort(ports.smtp), waitForPort(ports.mailWeb), waitForPort(ports.payments)])
+  await Promise.all([
+    waitForPort(ports.app),
+    waitForPort(ports.smtp),
+    waitForPort(ports.mailWeb),
+    waitForPort(ports.payments),
+    waitForPort(ports.sms),
+  ])
   if (dev) await waitForPort(ports.vite)
 
   const appUrl = dev ? `http://127.0.0.1:${ports.vite}/` : `http://127.0.0.1:${ports.app}/`
@@ -104,6 +125,7 @@ Tickover is running (Ctrl-C stops everything; data stays in .data/):
   API ready check  http://127.0.0.1:${ports.app}/api/ready
   Mail catcher     http://127.0.0.1:${ports.mailWeb}/   (sign-in links arrive here)
   Payments fake    ${paymentsUrl}/
+  SMS fake         ${smsUrl}/   (texts the app sends arrive here)
   PostgreSQL       127.0.0.1:${ports.postgres} (data in .data/postgres)
 `)
 }

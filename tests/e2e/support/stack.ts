@@ -5,7 +5,15 @@ import os from 'node:os'
 import path from 'node:path'
 import { drizzle } from 'drizzle-orm/node-postgres'
 import pg from 'pg'
-import { type Child, bin, projectRoot, startChild, startMaildev, startPaymentsFake } from '../../../docker-free-dev/lib/children'
+import {
+  type Child,
+  bin,
+  projectRoot,
+  startChild,
+  startMaildev,
+  startPaymentsFake,
+  startSmsFake,
+} from '../../../docker-free-dev/lib/children'
 import { getPort, waitForPort } from '../../../docker-free-dev/lib/ports'
 import { type PostgresHandle, ensureDatabase, startPostgres } from '../../../docker-free-dev/lib/postgres'
 import { runMigrations } from '../../../server/db/migrate'
@@ -55,7 +63,7 @@ function tail(file: string, lines = 40): string {
 
 /**
  * Everything a journey talks to, isolated from `npm start` and from the unit tests: a throwaway
- * PostgreSQL with the demo data, the mail catcher, the payments fake and the real server process
+ * PostgreSQL with the demo data, the mail catcher, the payments and SMS fakes and the real server process
  * serving the built client, each on a free port of 127.0.0.1. stop() removes it all.
  */
 export async function startE2eStack(opts: { clientDist: string; logDir: string }): Promise<E2eStack> {
@@ -90,6 +98,7 @@ export async function startE2eStack(opts: { clientDist: string; logDir: string }
       smtp: await freePort(),
       mailWeb: await freePort(),
       payments: await freePort(),
+      sms: await freePort(),
     }
 
     let t = Date.now()
@@ -113,6 +122,8 @@ export async function startE2eStack(opts: { clientDist: string; logDir: string }
     children.push(startMaildev(ports.smtp, ports.mailWeb, true))
     // Same wiring as `npm start`: the fake signs its webhooks with the secret the app checks them with.
     children.push(startPaymentsFake({ port: ports.payments, webhookUrl: `${baseURL}/api/payments/webhook`, webhookSecret, quiet: true }))
+    const smsURL = `http://127.0.0.1:${ports.sms}`
+    children.push(startSmsFake({ port: ports.sms, stepMs: 100, quiet: true }))
 
     const uploads = path.join(dataRoot, 'uploads')
     fs.mkdirSync(uploads)
@@ -136,6 +147,11 @@ export async function startE2eStack(opts: { clientDist: string; logDir: string }
         STRIPE_SECRET_KEY: paymentsKey,
         STRIPE_API_BASE: paymentsURL,
         STRIPE_WEBHOOK_SECRET: webhookSecret,
+        // The app runs as in production, where these have no defaults: a fresh account of the SMS fake.
+        TWILIO_ACCOUNT_SID: `AC${crypto.randomBytes(16).toString('hex')}`,
+        TWILIO_AUTH_TOKEN: crypto.randomBytes(16).toString('hex'),
+        TWILIO_FROM: '+15005550006',
+        TWILIO_API_BASE: smsURL,
       },
       true,
     )
@@ -150,6 +166,7 @@ export async function startE2eStack(opts: { clientDist: string; logDir: string }
       waitForPort(ports.smtp, STARTUP_MS),
       waitForPort(ports.mailWeb, STARTUP_MS),
       waitForPort(ports.payments, STARTUP_MS),
+      waitForPort(ports.sms, STARTUP_MS),
     ])
     await waitUntilReady(`${baseURL}/api/ready`, app, appLog, STARTUP_MS)
     say(`app, mail catcher and payments fake ready in ${seconds(t)} at ${baseURL}`)
