@@ -1,5 +1,5 @@
 /**
- * The only place money is formatted or rounded.
+ * The only place money is parsed from text, formatted or rounded.
  *
  * Amounts are integer minor units of an ISO 4217 currency, held as bigints while the engine
  * works so every product (rate × hours, net × tax rate) is exact before its single rounding.
@@ -12,7 +12,6 @@
 import type { DineroCurrency } from 'dinero.js/bigint'
 import { dinero, toDecimal } from 'dinero.js/bigint'
 import * as dineroCurrencies from 'dinero.js/bigint/currencies'
-import { parseMajorUnits } from './catalogue/decimal'
 
 export type Currency = DineroCurrency<bigint>
 
@@ -72,6 +71,34 @@ export function defaultMinimumCharge(code: string): number {
  */
 export function parseMoney(text: string, currency: string): number | null {
   return parseMajorUnits(text, minorUnitExponent(currency))
+}
+
+/**
+ * "12.5" or "12.50" in major units → 1250 minor units, for a currency with `exponent` minor digits
+ * (ISO 4217: GBP 2, JPY 0); null when it is not a plain amount. Parsed digit by digit: no float.
+ */
+export function parseMajorUnits(text: string, exponent: number): number | null {
+  const pattern = exponent > 0 ? new RegExp(`^(0|[1-9]\\d*)(\\.\\d{1,${exponent}})?$`) : /^(0|[1-9]\d*)$/
+  const trimmed = text.trim()
+  if (!pattern.test(trimmed)) return null
+  const [whole = '0', fraction = ''] = trimmed.split('.')
+  const value = Number(whole) * 10 ** exponent + Number(fraction.padEnd(exponent, '0') || '0')
+  return Number.isSafeInteger(value) ? value : null
+}
+
+/** 1250 → "12.50": minor units as the plain amount people type, without a currency sign. */
+export function formatMajorUnits(minor: number, exponent: number): string {
+  if (exponent === 0) return String(minor)
+  const digits = String(minor).padStart(exponent + 1, '0')
+  return `${digits.slice(0, -exponent)}.${digits.slice(-exponent)}`
+}
+
+/** Parser and formatter for money typed in major units ("12.50") and held in minor units of the currency. */
+export function moneyText(currency: () => string) {
+  return {
+    parse: (text: string) => parseMoney(text, currency()),
+    format: (minor: number) => formatMajorUnits(minor, minorUnitExponent(currency())),
+  }
 }
 
 const formatters = new Map<string, Intl.NumberFormat>()

@@ -2,7 +2,7 @@
  * Access steps form a graph: a step may include others ("hub off" includes "wheel off"). A loop
  * would have no finite time, so loops are refused, named step by step.
  */
-import { fromHundredths, toHundredths } from './decimal'
+import { fromHundredths, toHundredths } from '../decimal'
 
 export interface StepNode {
   code: string

@@ -5,7 +5,7 @@
  */
 import { dinero, halfUp, multiply, toSnapshot, transformScale } from 'dinero.js/bigint'
 import { currencyFor } from '../money'
-import { toHundredths } from './decimal'
+import { toHundredths } from '../decimal'
 
 export interface MarkupBand {
   /** Minor units; the band applies to costs from here up to, not including, the next band's start. */

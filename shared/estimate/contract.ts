@@ -1,6 +1,5 @@
 import { z } from 'zod'
-import { decimalPattern, HOURS_PLACES, PERCENT_PLACES, QUANTITY_PLACES } from './decimal'
-import { estimateInputIssues } from './prepare'
+import { decimalPattern, HOURS_PLACES, PERCENT_PLACES, QUANTITY_PLACES } from '../decimal'
 import { isSupportedCurrency } from '../money'
 
 /**
@@ -104,16 +103,10 @@ export const EstimateInputShapeSchema = z.strictObject({
   minimumCharge: Minor.optional(),
 })
 
-/** The full contract: shape plus the rules that tie parts together (step graph, requirements, access time). */
-export const EstimateInputSchema = EstimateInputShapeSchema.superRefine(
-  (input, ctx) => {
-    for (const issue of estimateInputIssues(input)) ctx.addIssue({ code: 'custom', path: issue.path, message: issue.message })
-  },
-  // The rules read parsed values, so they wait until the shape itself is right.
-  { when: (payload) => payload.issues.length === 0 },
-)
-
-/** Named from the shape schema so the engine's checks, which the full schema calls, can use it without a circular type. */
+/**
+ * The estimate's shape once parsed. The rules that tie its parts together are the engine's
+ * (EstimateInputSchema in prepare.ts), so this contract does not depend on the engine.
+ */
 export type EstimateInput = z.infer<typeof EstimateInputShapeSchema>
 /** What a caller may send: fields with defaults may be left out. */
 export type EstimateInputDraft = z.input<typeof EstimateInputShapeSchema>

@@ -10,7 +10,7 @@ import {
   type ScopeResult,
   type SharedStep,
 } from './contract'
-import { formatScaled, HOURS_PLACES, PERCENT_PLACES } from './decimal'
+import { formatScaled, HOURS_PLACES, PERCENT_PLACES } from '../decimal'
 import { type InputIssue, type LinePrice, type PreparedEstimate, type PreparedItem, type PreparedLine, prepareEstimate } from './prepare'
 
 export type EstimateIssue = z.core.$ZodIssue

@@ -1,2 +1,3 @@
 export { calculateEstimate, EstimateInputError, safeCalculateEstimate, summarise } from './engine'
 export type { EstimateIssue, SafeEstimateResult } from './engine'
+export { EstimateInputSchema } from './prepare'

@@ -4,8 +4,8 @@
  * than the book time. Every problem comes back with the path of the field to fix.
  */
 import { defaultMinimumCharge, minorUnitExponent, multiplyRounded } from '../money'
-import type { Decision, EstimateInput, SharedStep } from './contract'
-import { formatScaled, HOURS_PLACES, parseScaled, PERCENT_PLACES, QUANTITY_PLACES } from './decimal'
+import { type Decision, type EstimateInput, EstimateInputShapeSchema, type SharedStep } from './contract'
+import { formatScaled, HOURS_PLACES, parseScaled, PERCENT_PLACES, QUANTITY_PLACES } from '../decimal'
 
 export interface InputIssue {
   path: (string | number)[]
@@ -73,11 +73,19 @@ export interface PreparedEstimate {
 
 export type Prepared = { ok: true; value: PreparedEstimate } | { ok: false; issues: InputIssue[] }
 
-/** The rule checks alone, for the schema's refinement. */
-export function estimateInputIssues(input: EstimateInput): InputIssue[] {
-  const prepared = prepareEstimate(input)
-  return prepared.ok ? [] : prepared.issues
-}
+/**
+ * The full contract: shape plus the rules that tie parts together (step graph, requirements, access
+ * time), for callers that validate without pricing (the server's validate() middleware).
+ */
+export const EstimateInputSchema = EstimateInputShapeSchema.superRefine(
+  (input, ctx) => {
+    const prepared = prepareEstimate(input)
+    if (prepared.ok) return
+    for (const issue of prepared.issues) ctx.addIssue({ code: 'custom', path: issue.path, message: issue.message })
+  },
+  // The rules read parsed values, so they wait until the shape itself is right.
+  { when: (payload) => payload.issues.length === 0 },
+)
 
 /** Upper limits far above real work: they catch typos and keep totals within exact JSON numbers. */
 const MAX_HOURS = parseScaled('10000', HOURS_PLACES)

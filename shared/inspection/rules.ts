@@ -2,30 +2,19 @@
  * Turns what the technician recorded into a suggested severity and a plain description. The rules
  * are data in the check template; the thresholds in the starter template are common practice.
  */
+import { compareTruncated, formatScaled, truncateScaled } from '../decimal'
 import type { Severity } from '../schemas/severity'
-import type { CheckDefinition, CentreDiffSteps, DiffOperationSteps, ResultValue, SafetyCheck } from '../schemas/inspections'
+import type { CheckDefinition, CentreDiffSteps, DiffOperationSteps, ResultValue } from '../schemas/inspections'
 
-/** A non-negative decimal string as an integer count of 10^-scale units, so comparisons stay exact. */
-function scaled(value: string, scale: number): bigint {
-  const [whole = '0', fraction = ''] = value.split('.')
-  return BigInt(whole + fraction.padEnd(scale, '0').slice(0, scale))
-}
+/** Readings are compared to a millionth; digits typed past that are dropped, never rounded up over a limit. */
+const READING_PLACES = 6
 
-const SCALE = 6
-
-export function compareDecimal(a: string, b: string): -1 | 0 | 1 {
-  const x = scaled(a, SCALE)
-  const y = scaled(b, SCALE)
-  return x < y ? -1 : x > y ? 1 : 0
-}
+const compareReadings = (a: string, b: string) => compareTruncated(a, b, READING_PLACES)
 
 /** Degrees at the prop flange from a reading in degrees or in turns (1/8 turn = 45°). */
 export function backlashDegrees(value: string, unit: 'degrees' | 'turn'): string {
   if (unit === 'degrees') return value
-  const degrees = scaled(value, SCALE) * 360n
-  const whole = degrees / 10n ** BigInt(SCALE)
-  const rest = (degrees % 10n ** BigInt(SCALE)).toString().padStart(SCALE, '0').replace(/0+$/, '')
-  return rest ? `${whole}.${rest}` : `${whole}`
+  return formatScaled(truncateScaled(value, READING_PLACES) * 360n, READING_PLACES)
 }
 
 export type Verdict = 'normal' | 'faulty'
@@ -73,8 +62,8 @@ export function suggestSeverity(check: CheckDefinition, value: ResultValue): Sug
     }
     case 'measurement': {
       if (value.kind !== 'measurement') break
-      const bands = [...input.thresholds].sort((a, b) => compareDecimal(b.above, a.above))
-      const band = bands.find((t) => compareDecimal(value.value, t.above) > 0)
+      const bands = [...input.thresholds].sort((a, b) => compareReadings(b.above, a.above))
+      const band = bands.find((t) => compareReadings(value.value, t.above) > 0)
       return { severity: band?.severity ?? 'ok', detail: `${value.value} ${input.unit}` }
     }
     case 'pass-fail': {
@@ -85,7 +74,7 @@ export function suggestSeverity(check: CheckDefinition, value: ResultValue): Sug
       if (input.test === 'backlash' && value.kind === 'backlash') {
         const degrees = backlashDegrees(value.value, value.unit)
         const limit = input.limitDegrees ?? '45'
-        const over = compareDecimal(degrees, limit) > 0
+        const over = compareReadings(degrees, limit) > 0
         const reading = value.unit === 'turn' ? `${value.value} turn (${degrees}°)` : `${degrees}°`
         return { severity: over ? input.faultySeverity : 'ok', detail: `Free play ${reading} at the prop flange; limit ${limit}°` }
       }
@@ -118,27 +107,4 @@ export function suggestSeverity(check: CheckDefinition, value: ResultValue): Sug
     }
   }
   throw new ResultMismatchError(`A ${value.kind} reading does not fit the check ${check.code}`)
-}
-
-export interface StandsAssessment {
-  covered: boolean
-  totalCapacityKg: number
-  message: string
-}
-
-/**
- * The stands under the vehicle must be rated above the load they carry (common practice; the
- * technician's training and local rules decide). A rating per pair counts once for every two stands.
- */
-export function assessStands(s: Pick<SafetyCheck, 'standCapacityKg' | 'capacityBasis' | 'standCount' | 'axleLoadKg'>): StandsAssessment {
-  const units = s.capacityBasis === 'per-stand' ? s.standCount : Math.floor(s.standCount / 2)
-  const total = s.standCapacityKg * units
-  const covered = total >= s.axleLoadKg
-  return {
-    covered,
-    totalCapacityKg: total,
-    message: covered
-      ? `The stands are rated ${total} kg together, above the ${s.axleLoadKg} kg axle load.`
-      : `The stands are rated ${total} kg together, less than the ${s.axleLoadKg} kg axle load. Use stands with a higher rating before going under the vehicle.`,
-  }
 }

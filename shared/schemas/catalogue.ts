@@ -1,5 +1,5 @@
 import { z } from 'zod'
-import { decimalPattern, toHundredths } from '../catalogue/decimal'
+import { hundredthsPattern, toHundredths } from '../decimal'
 import { optionalText } from './common'
 
 export const labourSystems = ['front_axle', 'rear_axle', 'prop_shafts', 'transfer_box', 'steering', 'hubs_bearings'] as const
@@ -38,10 +38,13 @@ function decimalText(what: string, opts: { max: number; above?: number }) {
     z
       .string({ error: `Enter the ${what}` })
       .trim()
-      .regex(decimalPattern, `Write the ${what} as a number like 1.5, with at most 2 decimal places`)
+      .regex(hundredthsPattern, `Write the ${what} as a number like 1.5, with at most 2 decimal places`)
       // zod runs every check even after the pattern fails, so each refinement checks the pattern first.
-      .refine((v) => !decimalPattern.test(v) || toHundredths(v) <= opts.max, `The ${what} is too large`)
-      .refine((v) => !decimalPattern.test(v) || opts.above === undefined || toHundredths(v) > opts.above, `The ${what} must be more than 0`)
+      .refine((v) => !hundredthsPattern.test(v) || toHundredths(v) <= opts.max, `The ${what} is too large`)
+      .refine(
+        (v) => !hundredthsPattern.test(v) || opts.above === undefined || toHundredths(v) > opts.above,
+        `The ${what} must be more than 0`,
+      )
   )
 }
 

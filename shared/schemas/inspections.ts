@@ -1,12 +1,10 @@
 import { z } from 'zod'
-import { assessStands } from '../inspection/rules'
+import { readingPattern } from '../decimal'
+import { assessStands, capacityBases } from '../inspection/stands'
 import { SeveritySchema } from './severity'
 
 /** Decimal numbers travel as strings ("45", "0.125") so no binary float ever rounds a measurement. */
-export const DecimalStringSchema = z
-  .string()
-  .trim()
-  .regex(/^\d+(\.\d+)?$/, 'Enter a number, like 12 or 0.5')
+export const DecimalStringSchema = z.string().trim().regex(readingPattern, 'Enter a number, like 12 or 0.5')
 
 export const areaCodes = ['swivel-housings', 'cv-joints', 'prop-shafts', 'axle-differentials', 'transfer-box', 'half-shafts-hubs'] as const
 export const AreaCodeSchema = z.enum(areaCodes)
@@ -140,7 +138,7 @@ export const SafetyCheckSchema = z
     wheelsChocked: z.literal(true, { error: 'Confirm the wheels left on the ground are chocked' }),
     notOnJackAlone: z.literal(true, { error: 'Confirm nothing is held up by a jack alone' }),
     standCapacityKg: z.coerce.number().int().positive('Enter the stands’ rated capacity').max(100_000),
-    capacityBasis: z.enum(['per-stand', 'per-pair']),
+    capacityBasis: z.enum(capacityBases),
     standCount: z.coerce.number().int().min(2, 'At least two stands').max(8),
     axleLoadKg: z.coerce.number().int().positive('Enter the axle load').max(100_000),
   })

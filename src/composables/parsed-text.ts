@@ -1,7 +1,5 @@
 import { ref, watch } from 'vue'
-import { formatMajorUnits } from '@shared/catalogue/decimal'
-import { decimalPattern } from '@shared/estimate/decimal'
-import { minorUnitExponent, parseMoney } from '@shared/money'
+import { decimalPattern } from '@shared/decimal'
 
 /**
  * A field whose text is kept as typed until it means something: "1." or "12.5x" stays on screen
@@ -53,12 +51,4 @@ export function useParsedText<T>(options: {
 export function decimalText(places: number): (text: string) => string | null {
   const pattern = decimalPattern(places)
   return (text) => (pattern.test(text) ? text : null)
-}
-
-/** Parser and formatter for money typed in major units ("12.50") and held in minor units of the currency. */
-export function moneyText(currency: () => string) {
-  return {
-    parse: (text: string) => parseMoney(text, currency()),
-    format: (minor: number) => formatMajorUnits(minor, minorUnitExponent(currency())),
-  }
 }

@@ -6,7 +6,6 @@
  */
 import { describe, expect, it } from 'vitest'
 import { accessHours, findLoop, type StepNode } from '../../shared/catalogue/access-graph'
-import { fromHundredths, normalizeDecimal, toHundredths } from '../../shared/catalogue/decimal'
 import { bandFor, labourPrice, markedUpPrice, type MarkupBand, sellPrice } from '../../shared/catalogue/pricing'
 
 describe('labourPrice: rate × book hours', () => {
@@ -99,29 +98,6 @@ describe('markup bands', () => {
 
   it('has no price when no band covers the cost', () => {
     expect(sellPrice({ costMinor: 10, sellPriceMinor: null }, [], 'GBP')).toBeNull()
-  })
-})
-
-describe('hours as hundredths', () => {
-  it.each([
-    ['0', 0],
-    ['0.1', 10],
-    ['1.5', 150],
-    ['1.50', 150],
-    ['12.05', 1205],
-  ])('%s h is %i hundredths', (text, hundredths) => {
-    expect(toHundredths(text)).toBe(hundredths)
-  })
-
-  it('writes the shortest form back', () => {
-    expect(fromHundredths(150)).toBe('1.5')
-    expect(fromHundredths(100)).toBe('1')
-    expect(fromHundredths(5)).toBe('0.05')
-    expect(normalizeDecimal('2.50')).toBe('2.5')
-  })
-
-  it.each(['', '.5', '1.', '1.234', '01', '-1', '1e2', ' 1'])('refuses "%s"', (text) => {
-    expect(() => toHundredths(text)).toThrow(RangeError)
   })
 })
 

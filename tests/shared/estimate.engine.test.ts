@@ -3,8 +3,8 @@
  * figures are worked by hand from the rules in the issue, and prices are invented demo numbers.
  */
 import { describe, expect, it } from 'vitest'
-import { calculateEstimate, EstimateInputError, safeCalculateEstimate } from '../../shared/estimate'
-import { EstimateInputSchema, EstimateResultSchema, type EstimateInput, type EstimateItem } from '../../shared/estimate/contract'
+import { calculateEstimate, EstimateInputError, EstimateInputSchema, safeCalculateEstimate } from '../../shared/estimate'
+import { EstimateResultSchema, type EstimateInput, type EstimateItem } from '../../shared/estimate/contract'
 import { estimate, fee, item, labour, part } from './estimate-helpers'
 
 // Invented demo numbers: front-left access on a live-axle 4x4. Own hours only; the hub strip

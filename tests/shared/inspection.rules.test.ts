@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest'
-import { assessStands, backlashDegrees, centreDiffVerdict, diffOperationVerdict, suggestSeverity } from '../../shared/inspection/rules'
+import { backlashDegrees, centreDiffVerdict, diffOperationVerdict, suggestSeverity } from '../../shared/inspection/rules'
+import { assessStands } from '../../shared/inspection/stands'
 import { starterChecks } from '../../shared/inspection/starter-template'
 import {
   SafetyCheckSchema,

@@ -5,7 +5,7 @@
  */
 import cc from 'currency-codes'
 import { describe, expect, it } from 'vitest'
-import { formatMoney, parseMoney, SUPPORTED_CURRENCIES } from '../../shared/money'
+import { formatMajorUnits, formatMoney, moneyText, parseMajorUnits, parseMoney, SUPPORTED_CURRENCIES } from '../../shared/money'
 
 describe('parseMoney', () => {
   it.each([
@@ -47,5 +47,29 @@ describe('parseMoney', () => {
       const typed = digits === 0 ? String(minor) : `${String(minor).slice(0, -digits)}.${String(minor).slice(-digits)}`
       expect(parseMoney(typed, code), `${code} ${typed} (${formatMoney(minor, code)})`).toBe(minor)
     }
+  })
+})
+
+describe('formatMajorUnits and moneyText', () => {
+  it.each([
+    // Source: ISO 4217 minor units (via currency-codes 2.2.0): GBP 2, JPY 0, KWD 3.
+    { minor: 1250, exponent: 2, text: '12.50' },
+    { minor: 7, exponent: 2, text: '0.07' },
+    { minor: 0, exponent: 2, text: '0.00' },
+    { minor: 1250, exponent: 0, text: '1250' },
+    { minor: 1250, exponent: 3, text: '1.250' },
+  ])('$minor with $exponent minor digits is "$text"', ({ minor, exponent, text }) => {
+    expect(formatMajorUnits(minor, exponent)).toBe(text)
+    expect(parseMajorUnits(text, exponent)).toBe(minor)
+  })
+
+  it('parses and writes in the currency the getter names at the time', () => {
+    let currency = 'GBP'
+    const money = moneyText(() => currency)
+    expect(money.parse('12.5')).toBe(1250)
+    expect(money.format(1250)).toBe('12.50')
+    currency = 'JPY'
+    expect(money.parse('12.5')).toBeNull()
+    expect(money.format(1250)).toBe('1250')
   })
 })

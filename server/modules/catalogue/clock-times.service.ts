@@ -1,5 +1,5 @@
 import { NotFoundError } from '../../lib/errors'
-import { normalizeDecimal } from '../../../shared/catalogue/decimal'
+import { normalizeDecimal } from '../../../shared/decimal'
 import type { StaffPrincipal } from '../../../shared/schemas/auth'
 import type { ClockTime, ClockTimeInput, TimeComparisonQuery, TimeComparisonRow } from '../../../shared/schemas/catalogue'
 import type { LabourRepo } from './labour.repo'

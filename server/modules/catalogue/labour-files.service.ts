@@ -1,5 +1,5 @@
 import { type AuditContext, recordAudit } from '../../lib/audit'
-import { normalizeDecimal } from '../../../shared/catalogue/decimal'
+import { normalizeDecimal } from '../../../shared/decimal'
 import type { StaffPrincipal } from '../../../shared/schemas/auth'
 import type { AccessStepInput, ImportIssue, ImportReport, LabourOperationInput } from '../../../shared/schemas/catalogue'
 import type { Queryable } from '../../db/client'

@@ -10,7 +10,7 @@ import {
   labourSystems,
   labourSystemLabels,
 } from '../../../shared/schemas/catalogue'
-import { normalizeDecimal } from '../../../shared/catalogue/decimal'
+import { normalizeDecimal } from '../../../shared/decimal'
 import { joinList, splitList, unguardText } from './catalogue.csv'
 import type { ImportTable } from './catalogue.import'
 

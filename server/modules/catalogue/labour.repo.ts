@@ -2,7 +2,7 @@ import { type SQL, and, asc, count, eq, getTableColumns, inArray, isNotNull, isN
 import { alias } from 'drizzle-orm/pg-core'
 import type { Database, Queryable, Tx } from '../../db/client'
 import { accessStepIncludes, accessSteps, jobs, labourClockTimes, labourOperationAccessSteps, labourOperations } from '../../db/schema'
-import { normalizeDecimal } from '../../../shared/catalogue/decimal'
+import { normalizeDecimal } from '../../../shared/decimal'
 import type { LabourSearchQuery, TimeComparisonQuery } from '../../../shared/schemas/catalogue'
 import { type Listed, chunks, fromExcluded, lockImports, rankedSearch } from './catalogue.repo'
 

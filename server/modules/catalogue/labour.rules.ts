@@ -1,6 +1,6 @@
 import { type ErrorIssue, ValidationError } from '../../lib/errors'
 import { accessHours, findLoop } from '../../../shared/catalogue/access-graph'
-import { normalizeDecimal, toHundredths } from '../../../shared/catalogue/decimal'
+import { normalizeDecimal, toHundredths } from '../../../shared/decimal'
 import type { AccessStepInput, LabourOperationInput } from '../../../shared/schemas/catalogue'
 import type { OperationRecord, OperationValues, StepWithIncludes } from './labour.repo'
 

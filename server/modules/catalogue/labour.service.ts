@@ -1,6 +1,6 @@
 import { NotFoundError } from '../../lib/errors'
 import { accessHours } from '../../../shared/catalogue/access-graph'
-import { normalizeDecimal } from '../../../shared/catalogue/decimal'
+import { normalizeDecimal } from '../../../shared/decimal'
 import { labourPrice } from '../../../shared/catalogue/pricing'
 import type { AccessStep, LabourOperation, LabourSearchQuery, Pricing } from '../../../shared/schemas/catalogue'
 import type { Page } from '../../../shared/schemas/common'

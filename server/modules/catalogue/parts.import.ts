@@ -1,5 +1,6 @@
 import { type PartInput, PartInputSchema } from '../../../shared/schemas/catalogue'
-import { formatMajorUnits, normalizeDecimal, parseMajorUnits } from '../../../shared/catalogue/decimal'
+import { normalizeDecimal } from '../../../shared/decimal'
+import { formatMajorUnits, parseMajorUnits } from '../../../shared/money'
 import { unguardText } from './catalogue.csv'
 import type { ImportTable } from './catalogue.import'
 

@@ -2,7 +2,7 @@ import { eq, sql } from 'drizzle-orm'
 import type { Database } from '../../db/client'
 import { markupBands, workshopPricing, workshops } from '../../db/schema'
 import type { Pricing, PricingInput } from '../../../shared/schemas/catalogue'
-import { normalizeDecimal } from '../../../shared/catalogue/decimal'
+import { normalizeDecimal } from '../../../shared/decimal'
 
 /** UK VAT standard rate (HMRC), the default until the owner saves pricing; DESIGN §5. */
 export const DEFAULT_TAX_RATE = '20'

@@ -5,7 +5,7 @@ import type { EstimatesRepo, FindingRecord, Queryable } from './estimates.repo'
 import type { DraftItem, DraftLine, EstimateDraft } from '../../../shared/schemas/estimates'
 import { positionLabels } from '../../../shared/schemas/inspections'
 import { sellPrice } from '../../../shared/catalogue/pricing'
-import { normalizeDecimal } from '../../../shared/catalogue/decimal'
+import { normalizeDecimal } from '../../../shared/decimal'
 
 /** Letters that sided operation codes end in, by the finding's position (common practice in our demo table: -L/-R, -F/-R). */
 const sideSuffix: Record<string, string | null> = { left: 'L', right: 'R', front: 'F', rear: 'R', none: null }
