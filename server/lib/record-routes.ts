@@ -6,7 +6,8 @@ import { IdParamsSchema } from '../../shared/schemas/common'
 import { staffOf } from '../middleware/auth'
 import { type AuditContext, auditContextOf } from './audit'
 import { handle } from '../middleware/validate'
-import { type RouteGroup, type RouteTable, staffWith } from './route-table'
+import { staffWith } from './access'
+import type { RouteGroup, RouteTable } from './route-table'
 
 export interface RecordService<Input, Query, Item> {
   list(workshopId: string, q: Query): Promise<unknown>

@@ -1,13 +1,6 @@
 import { type RequestHandler, Router } from 'express'
-import type { Permission } from '../../shared/auth/policy'
 import { guard } from '../middleware/auth'
-
-export type Access = { kind: 'public' } | { kind: 'signed-in' } | { kind: 'staff'; permission: Permission } | { kind: 'customer' }
-
-export const anyone: Access = { kind: 'public' }
-export const signedIn: Access = { kind: 'signed-in' }
-export const customerOnly: Access = { kind: 'customer' }
-export const staffWith = (permission: Permission): Access => ({ kind: 'staff', permission })
+import type { Access } from './access'
 
 type Method = 'get' | 'post' | 'put' | 'patch' | 'delete'
 

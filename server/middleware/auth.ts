@@ -2,7 +2,7 @@ import type { RequestHandler } from 'express'
 import { can } from '../../shared/auth/policy'
 import type { CustomerPrincipal, StaffPrincipal } from '../../shared/schemas/auth'
 import { ForbiddenError, UnauthorizedError } from '../lib/errors'
-import type { Access } from '../lib/route-table'
+import type { Access } from '../lib/access'
 
 /** The server decides: every route passes through the guard for its declared access rule. */
 export function guard(access: Access): RequestHandler {

@@ -1,5 +1,6 @@
 import { AuditListQuerySchema } from '../../../shared/schemas/audit'
-import { type RouteTable, staffWith } from '../../lib/route-table'
+import { staffWith } from '../../lib/access'
+import type { RouteTable } from '../../lib/route-table'
 import { staffOf } from '../../middleware/auth'
 import { handle } from '../../middleware/validate'
 import type { AuditService } from './audit.service'

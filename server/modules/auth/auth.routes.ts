@@ -6,7 +6,8 @@ import { SignInRequestSchema, SignInVerifySchema, type Principal } from '../../.
 import type { Env } from '../../env'
 import { auditContextOf } from '../../lib/audit'
 import { BadRequestError } from '../../lib/errors'
-import { type RouteTable, anyone, signedIn } from '../../lib/route-table'
+import { anyone, signedIn } from '../../lib/access'
+import type { RouteTable } from '../../lib/route-table'
 import { handle } from '../../middleware/validate'
 import { type Audience, type AuthService, SIGN_IN_LINK_SECONDS } from './auth.service'
 

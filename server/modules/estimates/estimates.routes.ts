@@ -1,5 +1,6 @@
 import { auditContextOf } from '../../lib/audit'
-import { type RouteTable, staffWith } from '../../lib/route-table'
+import { staffWith } from '../../lib/access'
+import type { RouteTable } from '../../lib/route-table'
 import { staffOf } from '../../middleware/auth'
 import { handle } from '../../middleware/validate'
 import { IdParamsSchema } from '../../../shared/schemas/common'

@@ -1,5 +1,6 @@
 import type { LiveHub } from '../../lib/live-hub'
-import { type RouteTable, staffWith } from '../../lib/route-table'
+import { staffWith } from '../../lib/access'
+import type { RouteTable } from '../../lib/route-table'
 import { staffOf } from '../../middleware/auth'
 
 /** Browsers wait this long before reconnecting a dropped stream (sent as the stream's `retry:`). */

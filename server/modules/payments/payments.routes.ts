@@ -1,7 +1,8 @@
 import express from 'express'
 import { auditContextOf } from '../../lib/audit'
 import { answerById } from '../../lib/record-routes'
-import { type RouteTable, anyone, staffWith } from '../../lib/route-table'
+import { anyone, staffWith } from '../../lib/access'
+import type { RouteTable } from '../../lib/route-table'
 import type { DepositRefundService } from './deposit-refund.service'
 import type { DepositWebhookService } from './deposit-webhook.service'
 

@@ -1,6 +1,7 @@
 import type { RequestHandler } from 'express'
 import { auditContextOf } from '../../lib/audit'
-import { type RouteTable, anyone, customerOnly } from '../../lib/route-table'
+import { anyone, customerOnly } from '../../lib/access'
+import type { RouteTable } from '../../lib/route-table'
 import { customerOf } from '../../middleware/auth'
 import { handle } from '../../middleware/validate'
 import type { PortalDecisionsService } from './portal-decisions.service'

@@ -1,4 +1,5 @@
-import { type RouteTable, customerOnly } from '../../lib/route-table'
+import { customerOnly } from '../../lib/access'
+import type { RouteTable } from '../../lib/route-table'
 import { customerOf } from '../../middleware/auth'
 import type { PortalService } from './portal.service'
 

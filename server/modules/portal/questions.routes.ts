@@ -1,6 +1,7 @@
 import { auditContextOf } from '../../lib/audit'
 import { answerById } from '../../lib/record-routes'
-import { type RouteTable, staffWith } from '../../lib/route-table'
+import { staffWith } from '../../lib/access'
+import type { RouteTable } from '../../lib/route-table'
 import { staffOf } from '../../middleware/auth'
 import { handle } from '../../middleware/validate'
 import type { PortalQuestionsService } from './portal-questions.service'

@@ -1,4 +1,5 @@
-import { type RouteTable, anyone } from '../../lib/route-table'
+import { anyone } from '../../lib/access'
+import type { RouteTable } from '../../lib/route-table'
 import type { SystemService } from './system.service'
 
 export function systemRoutes(table: RouteTable, service: SystemService) {

@@ -1,6 +1,7 @@
 import { WorkshopSettingsSchema } from '../../../shared/schemas/workshop'
 import { auditContextOf } from '../../lib/audit'
-import { type RouteTable, staffWith } from '../../lib/route-table'
+import { staffWith } from '../../lib/access'
+import type { RouteTable } from '../../lib/route-table'
 import { staffOf } from '../../middleware/auth'
 import { handle } from '../../middleware/validate'
 import type { WorkshopService } from './workshop.service'
