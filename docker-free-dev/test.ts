@@ -17,8 +17,9 @@ interface Step {
 }
 
 const steps: Step[] = [
-  { name: 'type-check', command: bin('vue-tsc'), args: ['--noEmit', '-p', 'tsconfig.json'] },
-  { name: 'lint', command: bin('eslint'), args: ['.'] },
+  // The package scripts, so the projects type-checked and the lint checks are defined once.
+  { name: 'type-check', command: 'npm', args: ['run', '--silent', 'typecheck'] },
+  { name: 'lint', command: 'npm', args: ['run', '--silent', 'lint'] },
   { name: 'unit and API tests', command: bin('vitest'), args: ['run', ...process.argv.slice(2)] },
   // Run even after a failure above: a broken journey is worth knowing about in the same run.
   { name: 'browser journeys', command: bin('vitest'), args: ['run', '-c', 'vitest.e2e.config.ts'], ownServices: true },
