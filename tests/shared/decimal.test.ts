@@ -134,15 +134,18 @@ describe('hours as hundredths', () => {
   })
 })
 
-describe('readings are truncated, not refused or rounded', () => {
+describe('readings are truncated where parseScaled refuses', () => {
   it.each([
-    { text: '0.125', places: 6, expected: 125000n },
-    { text: '45', places: 6, expected: 45000000n },
-    { text: '0.1234567', places: 6, expected: 123456n },
-    { text: '0.9999999', places: 6, expected: 999999n },
-    { text: '007.5', places: 2, expected: 750n },
-  ])('"$text" to $places places → $expected', ({ text, places, expected }) => {
-    expect(truncateScaled(text, places)).toBe(expected)
+    { text: '0.125', places: 6, parsed: 125000n, truncated: 125000n },
+    { text: '45', places: 6, parsed: 45000000n, truncated: 45000000n },
+    { text: '0.1234567', places: 6, parsed: 'refused', truncated: 123456n },
+    // Dropped, not rounded up.
+    { text: '0.9999999', places: 6, parsed: 'refused', truncated: 999999n },
+    { text: '007.5', places: 2, parsed: 'refused', truncated: 750n },
+  ])('"$text" to $places places: parseScaled $parsed, truncateScaled $truncated', ({ text, places, parsed, truncated }) => {
+    if (parsed === 'refused') expect(() => parseScaled(text, places)).toThrow(RangeError)
+    else expect(parseScaled(text, places)).toBe(parsed)
+    expect(truncateScaled(text, places)).toBe(truncated)
   })
 
   it.each([
