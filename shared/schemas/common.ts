@@ -3,9 +3,10 @@ import { z } from 'zod'
 /**
  * Characters no text field takes: C0 controls (NUL among them, which PostgreSQL refuses in text) and DEL,
  * except tab, and line breaks where the field is multi-line; C1 controls; lone UTF-16 surrogates.
+ * Unicode's Cc category is exactly C0, DEL and C1.
  */
-const controlCharacters = /[\u0000-\u0008\u000B\u000C\u000E-\u001F\u007F-\u009F]/
-const controlOrBreak = /[\u0000-\u0008\u000A-\u001F\u007F-\u009F]/
+const controlCharacters = /(?![\t\n\r])\p{Cc}/u
+const controlOrBreak = /(?!\t)\p{Cc}/u
 const loneSurrogate = /[\uD800-\uDBFF](?![\uDC00-\uDFFF])|(?<![\uD800-\uDBFF])[\uDC00-\uDFFF]/
 
 /**
