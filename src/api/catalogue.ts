@@ -7,10 +7,11 @@ import type {
   ImportReport,
   LabourOperation,
   LabourOperationInput,
-  LabourSide,
+  LabourSearchQuery,
   LabourSystem,
   Part,
   PartInput,
+  PartSearchQuery,
   Pricing,
   PricingInput,
   TimeComparisonRow,
@@ -20,30 +21,12 @@ import { uploadCsv } from './csv-upload'
 import { API_BASE, request } from './http'
 import { queryString } from './list-query'
 
-export interface LabourSearchParams {
-  q?: string
-  vehicleGroup?: string
-  system?: LabourSystem
-  side?: LabourSide
-  /** true lists only archived operations. */
-  archived?: boolean
-  page: number
-  pageSize: number
-}
-
-export interface PartSearchParams {
-  q?: string
-  archived?: boolean
-  page: number
-  pageSize: number
-}
-
 const operationPath = (id: string) => `/labour-operations/${encodeURIComponent(id)}`
 const stepPath = (id: string) => `/access-steps/${encodeURIComponent(id)}`
 const partPath = (id: string) => `/parts/${encodeURIComponent(id)}`
 
-/** Ranked by how well each operation matches `q`; by code when there is no `q`. */
-export function searchLabour(params: LabourSearchParams): Promise<Page<LabourOperation>> {
+/** Ranked by how well each operation matches `q`; by code when there is no `q`. `archived: true` lists only archived operations. */
+export function searchLabour(params: LabourSearchQuery): Promise<Page<LabourOperation>> {
   return request<Page<LabourOperation>>('GET', `/labour-operations${queryString(params)}`)
 }
 
@@ -84,7 +67,7 @@ export function deleteAccessStep(id: string): Promise<void> {
   return request<void>('DELETE', stepPath(id))
 }
 
-export function searchParts(params: PartSearchParams): Promise<Page<Part>> {
+export function searchParts(params: PartSearchQuery): Promise<Page<Part>> {
   return request<Page<Part>>('GET', `/parts${queryString(params)}`)
 }
 

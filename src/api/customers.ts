@@ -1,18 +1,12 @@
 import type { Page } from '@shared/schemas/common'
-import type { Customer, CustomerInput } from '@shared/schemas/records'
+import type { Customer, CustomerInput, CustomerListQuery } from '@shared/schemas/records'
 import { request } from './http'
-import { type ListParams, queryString } from './list-query'
-
-export type CustomerSortKey = 'name' | 'createdAt'
-
-export interface CustomerListParams extends ListParams<CustomerSortKey> {
-  /** true lists only archived customers; otherwise only current ones. */
-  archived?: boolean
-}
+import { queryString } from './list-query'
 
 const path = (id: string) => `/customers/${encodeURIComponent(id)}`
 
-export function listCustomers(params: CustomerListParams): Promise<Page<Customer>> {
+/** `archived: true` lists only archived customers; otherwise only current ones. */
+export function listCustomers(params: CustomerListQuery): Promise<Page<Customer>> {
   return request<Page<Customer>>('GET', `/customers${queryString(params)}`)
 }
 

@@ -1,19 +1,12 @@
 import type { Page } from '@shared/schemas/common'
-import type { EstimateDefaults, EstimateDetail, EstimateDraft, EstimateStatus, EstimateSummary } from '@shared/schemas/estimates'
+import type { EstimateDefaults, EstimateDetail, EstimateDraft, EstimateListQuery, EstimateSummary } from '@shared/schemas/estimates'
 import { API_BASE, request } from './http'
-import { type ListParams, queryString } from './list-query'
-
-export type EstimateSortKey = 'number' | 'updatedAt' | 'customerName' | 'proposedGross'
-
-export interface EstimateListParams extends ListParams<EstimateSortKey> {
-  status?: EstimateStatus
-  jobId?: string
-}
+import { queryString } from './list-query'
 
 const path = (id: string) => `/estimates/${encodeURIComponent(id)}`
 
 /** `q` matches the customer, the registration or the number ("42" or "E-0042"). */
-export function listEstimates(params: EstimateListParams): Promise<Page<EstimateSummary>> {
+export function listEstimates(params: EstimateListQuery): Promise<Page<EstimateSummary>> {
   return request<Page<EstimateSummary>>('GET', `/estimates${queryString(params)}`)
 }
 

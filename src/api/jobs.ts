@@ -1,20 +1,12 @@
 import type { Page } from '@shared/schemas/common'
-import type { Job, JobInput, JobStatus } from '@shared/schemas/records'
+import type { Job, JobInput, JobListQuery } from '@shared/schemas/records'
 import { request } from './http'
-import { type ListParams, queryString } from './list-query'
-
-export type JobSortKey = 'createdAt' | 'status' | 'registration' | 'bookedFor'
-
-export interface JobListParams extends ListParams<JobSortKey> {
-  status?: JobStatus
-  technicianId?: string
-  vehicleId?: string
-}
+import { queryString } from './list-query'
 
 const path = (id: string) => `/jobs/${encodeURIComponent(id)}`
 
 /** Newest first unless a sort is given. */
-export function listJobs(params: JobListParams): Promise<Page<Job>> {
+export function listJobs(params: JobListQuery): Promise<Page<Job>> {
   return request<Page<Job>>('GET', `/jobs${queryString(params)}`)
 }
 

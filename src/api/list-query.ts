@@ -1,11 +1,12 @@
-/** The paging, sorting and search every record list takes (shared/schemas/common.ts listQuerySchema). */
-export interface ListParams<SortKey extends string = string> {
-  page: number
-  pageSize: number
-  sortBy?: SortKey
-  sortDesc?: boolean
-  q?: string
-}
+import type { z } from 'zod'
+import type { listQuerySchema } from '@shared/schemas/common'
+
+/**
+ * The paging, sorting and search every record list takes, as the contract parses them: the client
+ * holds numbers and true/false, which queryString() writes as the text the schema reads back.
+ * Type-only imports, so the browser bundle gains no zod.
+ */
+export type ListParams<SortKey extends string = string> = z.output<ReturnType<typeof listQuerySchema<readonly [SortKey, ...SortKey[]]>>>
 
 /** Builds `?page=1&pageSize=25…`, leaving out what is unset so the server's defaults apply. */
 export function queryString(params: object): string {

@@ -1,19 +1,12 @@
 import type { Page } from '@shared/schemas/common'
-import type { Vehicle, VehicleInput } from '@shared/schemas/records'
+import type { Vehicle, VehicleInput, VehicleListQuery } from '@shared/schemas/records'
 import { request } from './http'
-import { type ListParams, queryString } from './list-query'
-
-export type VehicleSortKey = 'registration' | 'make' | 'createdAt'
-
-export interface VehicleListParams extends ListParams<VehicleSortKey> {
-  customerId?: string
-  /** true lists only archived vehicles; otherwise only current ones. */
-  archived?: boolean
-}
+import { queryString } from './list-query'
 
 const path = (id: string) => `/vehicles/${encodeURIComponent(id)}`
 
-export function listVehicles(params: VehicleListParams): Promise<Page<Vehicle>> {
+/** `archived: true` lists only archived vehicles; otherwise only current ones. */
+export function listVehicles(params: VehicleListQuery): Promise<Page<Vehicle>> {
   return request<Page<Vehicle>>('GET', `/vehicles${queryString(params)}`)
 }
 

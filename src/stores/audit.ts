@@ -1,12 +1,9 @@
 import { defineStore } from 'pinia'
 import { ref } from 'vue'
-import type { AuditQuery } from '@/api/audit'
 import * as auditApi from '@/api/audit'
 import type { ApiError } from '@/api/http'
-import type { AuditEvent } from '@shared/schemas/audit'
+import type { AuditEvent, AuditListQuery } from '@shared/schemas/audit'
 import { asApiError, reportFailure } from './report-failure'
-
-export type { AuditQuery }
 
 export const useAuditStore = defineStore('audit', () => {
   const items = ref<AuditEvent[]>([])
@@ -15,7 +12,7 @@ export const useAuditStore = defineStore('audit', () => {
   const error = ref<ApiError | null>(null)
   let latest = 0
 
-  async function load(query: AuditQuery): Promise<void> {
+  async function load(query: AuditListQuery): Promise<void> {
     // Filters change faster than a slow connection answers; only the newest answer may fill the table.
     const ticket = ++latest
     isLoading.value = true

@@ -8,6 +8,7 @@ import type {
   ClockTimeInput,
   LabourOperation,
   LabourOperationInput,
+  LabourSearchQuery,
   LabourSide,
   LabourSystem,
   TimeComparisonRow,
@@ -50,7 +51,7 @@ export const useLabourStore = defineStore('labour', () => {
    * One lookup request for a lookup component, which keeps its own results so that two lookups on
    * one screen do not share them. Null when it failed; the failure is reported here.
    */
-  async function lookup(params: catalogueApi.LabourSearchParams): Promise<Page<LabourOperation> | null> {
+  async function lookup(params: LabourSearchQuery): Promise<Page<LabourOperation> | null> {
     try {
       return await catalogueApi.searchLabour(params)
     } catch (cause) {

@@ -11,11 +11,10 @@ import type {
   LinkRefusalDetails,
   PortalDeposit,
   PortalEstimate,
-  PortalEstimateSummary,
   PortalQuestion,
 } from '@shared/schemas/portal'
 import { useAuthStore } from './auth'
-import { asApiError, reportFailure } from './report-failure'
+import { asApiError } from './report-failure'
 
 /** How often the return page asks whether the deposit is paid, and for how long before saying calmly that it is taking a while. */
 export const DEPOSIT_POLL_EVERY_MS = 1500
@@ -325,6 +324,10 @@ export const usePortalEstimateStore = defineStore('portal-estimate', () => {
     }
   }
 
+  // Addresses the browser loads itself (the PDF, photos), so pages do not reach into the API module.
+  const pdfUrl = (id: string, version?: number) => portalApi.pdfUrl(id, version)
+  const photoUrl = (id: string, photoId: string, size: 'full' | 'thumb') => portalApi.photoUrl(id, photoId, size)
+
   async function renewLink(token: string): Promise<void> {
     isRenewing.value = true
     renewError.value = null
@@ -338,6 +341,8 @@ export const usePortalEstimateStore = defineStore('portal-estimate', () => {
   }
 
   return {
+    pdfUrl,
+    photoUrl,
     estimate,
     isLoading,
     error,
@@ -373,27 +378,4 @@ export const usePortalEstimateStore = defineStore('portal-estimate', () => {
     openLink,
     renewLink,
   }
-})
-
-/** The customer's estimates, for their account page. */
-export const usePortalEstimateListStore = defineStore('portal-estimate-list', () => {
-  const items = ref<PortalEstimateSummary[]>([])
-  const hasLoaded = ref(false)
-  const isLoading = ref(false)
-  const error = ref<ApiError | null>(null)
-
-  async function load(): Promise<void> {
-    isLoading.value = true
-    error.value = null
-    try {
-      items.value = await portalApi.listMyEstimates()
-      hasLoaded.value = true
-    } catch (cause) {
-      error.value = reportFailure(cause)
-    } finally {
-      isLoading.value = false
-    }
-  }
-
-  return { items, hasLoaded, isLoading, error, load }
 })

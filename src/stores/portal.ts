@@ -1,24 +1,25 @@
 import { defineStore } from 'pinia'
-import { ref } from 'vue'
+import { type Ref, ref } from 'vue'
 import type { ApiError } from '@/api/http'
 import * as portalApi from '@/api/portal'
 import type { PortalVehicle } from '@/api/portal'
+import type { PortalEstimateSummary } from '@shared/schemas/portal'
 import { reportFailure } from './report-failure'
 
 export type { PortalVehicle }
 
-/** What a signed-in customer sees of their own records. */
-export const usePortalStore = defineStore('portal', () => {
-  const vehicles = ref<PortalVehicle[]>([])
+/** One of the customer's own lists: loaded once the account page asks, kept while they stay signed in. */
+function ownList<T>(fetchAll: () => Promise<T[]>) {
+  const items = ref([]) as Ref<T[]>
   const hasLoaded = ref(false)
   const isLoading = ref(false)
   const error = ref<ApiError | null>(null)
 
-  async function loadVehicles(): Promise<void> {
+  async function load(): Promise<void> {
     isLoading.value = true
     error.value = null
     try {
-      vehicles.value = await portalApi.listMyVehicles()
+      items.value = await fetchAll()
       hasLoaded.value = true
     } catch (cause) {
       error.value = reportFailure(cause)
@@ -27,5 +28,24 @@ export const usePortalStore = defineStore('portal', () => {
     }
   }
 
-  return { vehicles, hasLoaded, isLoading, error, loadVehicles }
+  return { items, hasLoaded, isLoading, error, load }
+}
+
+/** What a signed-in customer sees of their own records: their vehicles and their estimates. */
+export const usePortalStore = defineStore('portal', () => {
+  const vehicles = ownList<PortalVehicle>(() => portalApi.listMyVehicles())
+  const estimates = ownList<PortalEstimateSummary>(() => portalApi.listMyEstimates())
+
+  return {
+    vehicles: vehicles.items,
+    vehiclesLoaded: vehicles.hasLoaded,
+    isLoadingVehicles: vehicles.isLoading,
+    vehiclesError: vehicles.error,
+    loadVehicles: vehicles.load,
+    estimates: estimates.items,
+    estimatesLoaded: estimates.hasLoaded,
+    isLoadingEstimates: estimates.isLoading,
+    estimatesError: estimates.error,
+    loadEstimates: estimates.load,
+  }
 })

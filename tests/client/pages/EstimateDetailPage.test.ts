@@ -10,7 +10,7 @@ import { addFindings, getEstimate, saveDraft, sendEstimate } from '@/api/estimat
 import EstimateDetailPage from '@/pages/staff/EstimateDetailPage.vue'
 import { routes } from '@/router'
 import { useAuthStore } from '@/stores/auth'
-import { AUTOSAVE_DELAY_MS } from '@/stores/estimates'
+import { AUTOSAVE_DELAY_MS } from '@/stores/estimate'
 import type { StaffRole } from '@shared/auth/policy'
 import type { EstimateDetail } from '@shared/schemas/estimates'
 import { buttonByName, fieldByLabel, openDialog, queryButtonByName, statusMessages, typeInto } from '../support/dom'
