@@ -7,15 +7,8 @@ import { useAutosave } from '@/composables/autosave'
 import { type ItemRef, placeIssues } from '@/composables/estimate-draft'
 import { useDraftEdits } from '@/composables/estimate-edits'
 import { safeCalculateEstimate } from '@shared/estimate'
-import type { AccessStep, LabourOperation, Part } from '@shared/schemas/catalogue'
-import {
-  type DraftItem,
-  type DraftLine,
-  type EstimateDetail,
-  type EstimateDraft,
-  EstimateDraftSchema,
-  draftToEngineInput,
-} from '@shared/schemas/estimates'
+import type { AccessStep, Part } from '@shared/schemas/catalogue'
+import { type EstimateDetail, type EstimateDraft, EstimateDraftSchema, draftToEngineInput } from '@shared/schemas/estimates'
 import type { LiveEvent } from '@shared/schemas/live'
 import { LIVE_REFRESH_DELAY_MS } from './estimate-live'
 import { useNotificationsStore } from './notifications'
