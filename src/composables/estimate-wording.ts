@@ -1,26 +1,16 @@
 import type { Decision } from '@shared/estimate/contract'
+import { dateTimeFormat } from '@shared/dates'
 import type { EstimateDetail, EstimateVersionSummary, ItemDecision } from '@shared/schemas/estimates'
-
-const momentFormats = new Map<string, Intl.DateTimeFormat>()
-const timeFormats = new Map<string, Intl.DateTimeFormat>()
-
-function cached(map: Map<string, Intl.DateTimeFormat>, timeZone: string, options: Intl.DateTimeFormatOptions): Intl.DateTimeFormat {
-  let format = map.get(timeZone)
-  if (!format) {
-    format = new Intl.DateTimeFormat('en-GB', { ...options, timeZone })
-    map.set(timeZone, format)
-  }
-  return format
-}
 
 /** "2 Dec 14:03" by the workshop's clock: estimates live for weeks, so the year would only be noise. */
 export function formatMoment(iso: string, timeZone: string): string {
-  const parts = cached(momentFormats, timeZone, {
+  const parts = dateTimeFormat({
     day: 'numeric',
     month: 'short',
     hour: '2-digit',
     minute: '2-digit',
     hourCycle: 'h23',
+    timeZone,
   }).formatToParts(new Date(iso))
   const part = (type: Intl.DateTimeFormatPartTypes) => parts.find((p) => p.type === type)?.value ?? ''
   return `${part('day')} ${part('month')} ${part('hour')}:${part('minute')}`
@@ -28,7 +18,7 @@ export function formatMoment(iso: string, timeZone: string): string {
 
 /** "14:03" by the workshop's clock. */
 export function formatClock(iso: string, timeZone: string): string {
-  return cached(timeFormats, timeZone, { hour: '2-digit', minute: '2-digit', hourCycle: 'h23' }).format(new Date(iso))
+  return dateTimeFormat({ hour: '2-digit', minute: '2-digit', hourCycle: 'h23', timeZone }).format(new Date(iso))
 }
 
 export function latestVersion(detail: Pick<EstimateDetail, 'versions'>): EstimateVersionSummary | null {

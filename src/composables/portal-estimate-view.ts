@@ -1,3 +1,4 @@
+import { dateTimeFormat } from '@shared/dates'
 import { safeCalculateEstimate } from '@shared/estimate'
 import { formatMoney } from '@shared/money'
 import type { Decision, EstimateResult, ItemLineResult } from '@shared/estimate/contract'
@@ -94,14 +95,14 @@ export const decisionWords: Record<Decision, string> = {
   pending: 'Not decided yet',
 }
 
-const longDate = new Intl.DateTimeFormat('en-GB', { weekday: 'long', day: 'numeric', month: 'long', year: 'numeric', timeZone: 'UTC' })
-
 /**
  * "Tuesday 31 March 2026" for a calendar date (YYYY-MM-DD), the same on every device whatever its
  * time zone. Put together from parts because browsers differ on the comma after the weekday.
  */
 export function formatDay(isoDate: string): string {
-  const parts = longDate.formatToParts(new Date(`${isoDate}T00:00:00Z`))
+  const parts = dateTimeFormat({ weekday: 'long', day: 'numeric', month: 'long', year: 'numeric', timeZone: 'UTC' }).formatToParts(
+    new Date(`${isoDate}T00:00:00Z`),
+  )
   const part = (type: Intl.DateTimeFormatPartTypes) => parts.find((p) => p.type === type)?.value ?? ''
   return `${part('weekday')} ${part('day')} ${part('month')} ${part('year')}`
 }

@@ -1,24 +1,19 @@
 import { roleLabels } from '@shared/auth/policy'
+import { dateTimeFormat } from '@shared/dates'
 import type { Customer, Vehicle } from '@shared/schemas/records'
 import type { StaffMember } from '@shared/schemas/staff'
 
-const dayFormat = new Intl.DateTimeFormat('en-GB', { day: 'numeric', month: 'short', year: 'numeric', timeZone: 'UTC' })
-const dayFormats = new Map<string, Intl.DateTimeFormat>()
+const dayOptions: Intl.DateTimeFormatOptions = { day: 'numeric', month: 'short', year: 'numeric' }
 const numberFormat = new Intl.NumberFormat('en-GB')
 
 /** A calendar date (`2026-03-02`, no time of day) as "2 Mar 2026"; read as UTC so no time zone shifts the day. */
 export function formatDay(isoDate: string): string {
-  return dayFormat.format(new Date(`${isoDate}T00:00:00Z`))
+  return dateTimeFormat({ ...dayOptions, timeZone: 'UTC' }).format(new Date(`${isoDate}T00:00:00Z`))
 }
 
 /** The day a moment fell on by the workshop's clock, e.g. when a record was added. */
 export function formatDayOf(iso: string, timeZone: string): string {
-  let format = dayFormats.get(timeZone)
-  if (!format) {
-    format = new Intl.DateTimeFormat('en-GB', { day: 'numeric', month: 'short', year: 'numeric', timeZone })
-    dayFormats.set(timeZone, format)
-  }
-  return format.format(new Date(iso))
+  return dateTimeFormat({ ...dayOptions, timeZone }).format(new Date(iso))
 }
 
 /** "Corrin Stag 110 (2014)" */
