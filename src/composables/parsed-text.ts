@@ -1,12 +1,7 @@
 import { ref, watch } from 'vue'
 import { decimalPattern } from '@shared/decimal'
 
-/**
- * A field whose text is kept as typed until it means something: "1." or "12.5x" stays on screen
- * with a message instead of being thrown away, and the value changes only once the text parses.
- * When the value changes from outside (another line moved, the server's copy arrived) the text follows it.
- */
-export function useParsedText<T>(options: {
+export interface ParsedTextOptions<T> {
   read: () => T
   parse: (text: string) => T | null
   format: (value: T) => string
@@ -15,7 +10,14 @@ export function useParsedText<T>(options: {
   /** Called with the message while the text does not parse, and with null once it does again. */
   problem: (message: string | null) => void
   message: () => string
-}) {
+}
+
+/**
+ * A field whose text is kept as typed until it means something: "1." or "12.5x" stays on screen
+ * with a message instead of being thrown away, and the value changes only once the text parses.
+ * When the value changes from outside (another line moved, the server's copy arrived) the text follows it.
+ */
+export function useParsedText<T>(options: ParsedTextOptions<T>) {
   const text = ref(options.format(options.read()))
   const error = ref<string | null>(null)
 
