@@ -7,30 +7,15 @@ import type {
   OpenLinkResponse,
   PortalDeposit,
   PortalEstimate,
-  PortalEstimateList,
-  PortalEstimateSummary,
   PortalQuestion,
   PutDecision,
   RenewLinkResponse,
 } from '@shared/schemas/portal'
 import { API_BASE, request } from './http'
 
-/** Mirrors the select in server/modules/portal/portal.routes.ts. */
-export interface PortalVehicle {
-  id: string
-  registration: string
-  make: string
-  model: string
-  year: number | null
-}
-
-export async function listMyVehicles(): Promise<PortalVehicle[]> {
-  const { items } = await request<{ items: PortalVehicle[] }>('GET', '/portal/vehicles')
-  return items
-}
-
-// The answers below are typed from shared/schemas/portal.ts but not parsed with it: zod's
-// parsing would add weight to the portal's first load for checks the server already makes.
+// One estimate as its customer opens, decides, confirms and pays for it; their lists are in
+// portal-account.ts. The answers are typed from shared/schemas/portal.ts but not parsed with it:
+// zod's parsing would add weight to the portal's first load for checks the server already makes.
 
 /** Signs the link's customer in and says which estimate to show. */
 export function openEstimateLink(token: string): Promise<OpenLinkResponse> {
@@ -39,11 +24,6 @@ export function openEstimateLink(token: string): Promise<OpenLinkResponse> {
 
 export function renewEstimateLink(token: string): Promise<RenewLinkResponse> {
   return request<RenewLinkResponse>('POST', '/portal/estimate-links/renew', { body: { token } })
-}
-
-export async function listMyEstimates(): Promise<PortalEstimateSummary[]> {
-  const { items } = await request<PortalEstimateList>('GET', '/portal/estimates')
-  return items
 }
 
 const estimatePath = (id: string) => `/portal/estimates/${encodeURIComponent(id)}`

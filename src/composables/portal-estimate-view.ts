@@ -1,4 +1,3 @@
-import { dateTimeFormat } from '@shared/dates'
 import { safeCalculateEstimate } from '@shared/estimate'
 import { formatMoney } from '@shared/money'
 import type { Decision, EstimateResult, ItemLineResult } from '@shared/estimate/contract'
@@ -93,18 +92,6 @@ export const decisionWords: Record<Decision, string> = {
   approved: 'Approved',
   declined: 'Declined',
   pending: 'Not decided yet',
-}
-
-/**
- * "Tuesday 31 March 2026" for a calendar date (YYYY-MM-DD), the same on every device whatever its
- * time zone. Put together from parts because browsers differ on the comma after the weekday.
- */
-export function formatDay(isoDate: string): string {
-  const parts = dateTimeFormat({ weekday: 'long', day: 'numeric', month: 'long', year: 'numeric', timeZone: 'UTC' }).formatToParts(
-    new Date(`${isoDate}T00:00:00Z`),
-  )
-  const part = (type: Intl.DateTimeFormatPartTypes) => parts.find((p) => p.type === type)?.value ?? ''
-  return `${part('weekday')} ${part('day')} ${part('month')} ${part('year')}`
 }
 
 /** Digits and a leading plus, for a tel: link; the "(0)" of "+44 (0)1632" is not dialled from abroad. */

@@ -4,7 +4,7 @@ import { createPinia, setActivePinia } from 'pinia'
 import { afterEach, beforeAll, beforeEach, describe, expect, it, vi } from 'vitest'
 import { createMemoryHistory, createRouter } from 'vue-router'
 import { getMe, signOut } from '@/api/auth'
-import { listMyEstimates, listMyVehicles } from '@/api/portal'
+import { listMyEstimates, listMyVehicles } from '@/api/portal-account'
 import App from '@/App.vue'
 import { installGuards, routes } from '@/router'
 import { buttonByName } from '../support/dom'
@@ -13,7 +13,7 @@ import { preloadRouteComponents } from '../support/router'
 import { createTestVuetify } from '../support/vuetify'
 
 vi.mock('@/api/auth', () => ({ getMe: vi.fn(), requestSignInLink: vi.fn(), verifySignInLink: vi.fn(), signOut: vi.fn() }))
-vi.mock('@/api/portal', () => ({ listMyVehicles: vi.fn(), listMyEstimates: vi.fn() }))
+vi.mock('@/api/portal-account', () => ({ listMyVehicles: vi.fn(), listMyEstimates: vi.fn() }))
 
 let unmount: (() => void) | undefined
 

@@ -21,7 +21,7 @@ vi.mock('@/api/auth', () => ({
 }))
 // Signing in lands on a page that loads its own data.
 vi.mock('@/api/system', () => ({ getHealth: vi.fn(), getReady: vi.fn() }))
-vi.mock('@/api/portal', () => ({ listMyVehicles: vi.fn(async () => []), listMyEstimates: vi.fn(async () => []) }))
+vi.mock('@/api/portal-account', () => ({ listMyVehicles: vi.fn(async () => []), listMyEstimates: vi.fn(async () => []) }))
 vi.mock('@/api/audit', () => ({ listAuditEvents: vi.fn(async () => ({ items: [], total: 0, page: 1, pageSize: 25 })) }))
 vi.mock('@/api/staff', () => ({ listStaff: vi.fn(async () => []) }))
 

@@ -2,8 +2,8 @@
 import { afterEach, beforeAll, beforeEach, describe, expect, it, vi } from 'vitest'
 import { getMe } from '@/api/auth'
 import { ApiError } from '@/api/http'
-import { listMyEstimates, listMyVehicles } from '@/api/portal'
-import type * as PortalApi from '@/api/portal'
+import { listMyEstimates, listMyVehicles } from '@/api/portal-account'
+import type * as PortalAccountApi from '@/api/portal-account'
 import type { PortalEstimateSummary } from '@shared/schemas/portal'
 import { buttonByName } from '../support/dom'
 import { customerPrincipal } from '../support/principals'
@@ -12,8 +12,8 @@ import { portalIds } from './fixtures'
 import { mountPortalAt, regionNamed, text, unmountPortal } from './harness'
 
 vi.mock('@/api/auth', () => ({ getMe: vi.fn(), requestSignInLink: vi.fn(), verifySignInLink: vi.fn(), signOut: vi.fn() }))
-vi.mock('@/api/portal', async (importOriginal) => ({
-  ...(await importOriginal<typeof PortalApi>()),
+vi.mock('@/api/portal-account', async (importOriginal) => ({
+  ...(await importOriginal<typeof PortalAccountApi>()),
   listMyVehicles: vi.fn(),
   listMyEstimates: vi.fn(),
 }))

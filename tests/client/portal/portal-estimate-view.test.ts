@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest'
-import { formatDay, groupBySeverity, requiresWords, savingWithTax, telHref } from '@/composables/portal-estimate-view'
+import { formatLongDay } from '@/composables/date-time'
+import { groupBySeverity, requiresWords, savingWithTax, telHref } from '@/composables/portal-estimate-view'
 import { snapshot } from './fixtures'
 
 describe('the estimate page wording', () => {
@@ -28,7 +29,7 @@ describe('the estimate page wording', () => {
   })
 
   it('writes a decision date the same way in every time zone, and a phone number a phone can dial', () => {
-    expect(formatDay('2026-03-31')).toBe('Tuesday 31 March 2026')
+    expect(formatLongDay('2026-03-31')).toBe('Tuesday 31 March 2026')
     expect(telHref('+44 (0)1632 960-555')).toBe('tel:+441632960555')
   })
 })

@@ -1,12 +1,10 @@
 import { defineStore } from 'pinia'
 import { type Ref, ref } from 'vue'
 import type { ApiError } from '@/api/http'
-import * as portalApi from '@/api/portal'
-import type { PortalVehicle } from '@/api/portal'
+import * as accountApi from '@/api/portal-account'
+import type { PortalVehicle } from '@/api/portal-account'
 import type { PortalEstimateSummary } from '@shared/schemas/portal'
 import { reportFailure } from './report-failure'
-
-export type { PortalVehicle }
 
 /** One of the customer's own lists: loaded once the account page asks, kept while they stay signed in. */
 function ownList<T>(fetchAll: () => Promise<T[]>) {
@@ -32,9 +30,9 @@ function ownList<T>(fetchAll: () => Promise<T[]>) {
 }
 
 /** What a signed-in customer sees of their own records: their vehicles and their estimates. */
-export const usePortalStore = defineStore('portal', () => {
-  const vehicles = ownList<PortalVehicle>(() => portalApi.listMyVehicles())
-  const estimates = ownList<PortalEstimateSummary>(() => portalApi.listMyEstimates())
+export const usePortalAccountStore = defineStore('portal-account', () => {
+  const vehicles = ownList<PortalVehicle>(() => accountApi.listMyVehicles())
+  const estimates = ownList<PortalEstimateSummary>(() => accountApi.listMyEstimates())
 
   return {
     vehicles: vehicles.items,
