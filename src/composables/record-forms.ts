@@ -6,7 +6,12 @@ import { useNotificationsStore } from '@/stores/notifications'
 /** What a record store built on useRecordDetail (stores/record-list.ts) offers the pages' dialogs. */
 export interface RecordStore<T, I> {
   current: T | null
+  isLoadingCurrent: boolean
+  currentError: ApiError | null
+  isSaving: boolean
+  isRemoving: boolean
   removeError: ApiError | null
+  get(id: string): Promise<T | null>
   clearErrors(): void
   save(input: I, id?: string): Promise<T | null>
   archive(id: string): Promise<T | null>
@@ -60,8 +65,16 @@ export interface RecordWords<T> {
   historyKept: string
 }
 
-/** A record page's edit, archive and delete dialogs for the record `id()`, with the notices each one ends with. */
-export function useRecordDialogs<T, I>(store: RecordStore<T, I>, id: () => string, words: RecordWords<T>, listPage: RouteLocationRaw) {
+/**
+ * A record page's edit, archive and delete dialogs for the record `id()`, with the notices each one
+ * ends with, and what RecordDeleteDialog and RecordPageStatus show (`v-bind` them).
+ */
+export function useRecordDialogs<T extends { archived: boolean }, I>(
+  store: RecordStore<T, I>,
+  id: () => string,
+  words: RecordWords<T>,
+  listPage: RouteLocationRaw,
+) {
   const notifications = useNotificationsStore()
   const router = useRouter()
   const editOpen = ref(false)
@@ -104,8 +117,28 @@ export function useRecordDialogs<T, I>(store: RecordStore<T, I>, id: () => strin
     if (await setArchived(true)) deleteOpen.value = false
   }
 
-  /** Why the server would not delete it (something still points at it), for the delete dialog. */
-  const refusal = computed(() => (store.removeError?.status === 409 ? store.removeError.message : null))
+  const deleteDialog = computed(() => ({
+    open: deleteOpen.value,
+    'onUpdate:open': (open: boolean) => {
+      deleteOpen.value = open
+    },
+    what: store.current ? words.name(store.current) : '',
+    deleting: store.isRemoving,
+    // Why the server would not delete it: something still points at it.
+    refusal: store.removeError?.status === 409 ? store.removeError.message : null,
+    alternativeLabel: store.current?.archived ? null : 'Archive instead',
+    alternativeBusy: store.isSaving,
+    onConfirm: confirmDelete,
+    onAlternative: archiveInstead,
+  }))
 
-  return { editOpen, deleteOpen, edit, save, setArchived, askDelete, confirmDelete, archiveInstead, refusal }
+  /** Whether the record is still loading, was not found or did not load. */
+  const pageStatus = computed(() => ({
+    missing: store.currentError?.status === 404,
+    loading: store.isLoadingCurrent,
+    failed: Boolean(store.currentError),
+    onRetry: () => void store.get(id()),
+  }))
+
+  return { editOpen, edit, save, setArchived, askDelete, deleteDialog, pageStatus }
 }
