@@ -46,14 +46,14 @@ export function useNewRecordForm<T, I>(
   return { open, start, save }
 }
 
-/** The same, going to the new record's page once it is saved. */
+/** The same, going to the new record's page (the route named `page`, with the record's id) once it is saved. */
 export function useNewRecordPage<T extends { id: string }, I>(
   store: Pick<RecordStore<T, I>, 'clearErrors' | 'save'>,
   saidWhenSaved: (saved: T) => string,
-  page: (saved: T) => RouteLocationRaw,
+  page: string,
 ) {
   const router = useRouter()
-  return useNewRecordForm(store, saidWhenSaved, (saved) => router.push(page(saved)))
+  return useNewRecordForm(store, saidWhenSaved, (saved) => router.push({ name: page, params: { id: saved.id } }))
 }
 
 export interface RecordWords<T> {
