@@ -41,6 +41,42 @@ export default tseslint.config(
     rules: { 'import-x/no-cycle': ['error', { ignoreExternal: true }] },
   },
   {
+    // Layers: SQL lives only in *.repo.ts (and *.sql.ts fragments). Services and routes import nothing of
+    // Drizzle or the table definitions, not even types: repos export the row types they need.
+    files: ['server/**/*.service.ts', 'server/**/*.routes.ts'],
+    rules: {
+      'no-restricted-imports': [
+        'error',
+        {
+          patterns: [
+            { group: ['drizzle-orm', 'drizzle-orm/*'], message: 'Queries belong in a *.repo.ts file; call the repo from here.' },
+            {
+              group: ['**/db/schema', '**/db/schema/*'],
+              message: 'Table definitions belong to repos; import the row types the repo exports.',
+            },
+          ],
+        },
+      ],
+    },
+  },
+  {
+    // Pages and components get server state from their Pinia store, which alone calls src/api.
+    files: ['src/pages/**', 'src/components/**', 'src/layouts/**'],
+    rules: {
+      'no-restricted-imports': [
+        'error',
+        {
+          patterns: [
+            {
+              group: ['@/api', '@/api/*', '**/api/*', '!@shared/**'],
+              message: 'Pages and components talk to the server through a store (src/stores), never src/api directly.',
+            },
+          ],
+        },
+      ],
+    },
+  },
+  {
     files: ['docker-free-dev/**', 'server/cli/**', 'server/db/migrate.ts', 'server/db/seed.ts', 'tests/bench/**', 'tests/setup/**'],
     rules: { 'no-console': 'off' },
   },

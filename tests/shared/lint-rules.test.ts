@@ -62,6 +62,48 @@ const cases: LintCase[] = [
     rule: 'import-x/no-cycle',
     reported: false,
   },
+  {
+    name: 'a service that queries with Drizzle',
+    filePath: 'server/modules/probe/probe.service.ts',
+    text: "import { eq } from 'drizzle-orm'\nexport const byId = eq\n",
+    rule: 'no-restricted-imports',
+    reported: true,
+  },
+  {
+    name: 'a route file that imports a table, even as a type',
+    filePath: 'server/modules/probe/probe.routes.ts',
+    text: "import type { jobs } from '../../db/schema'\nexport type Job = typeof jobs.$inferSelect\n",
+    rule: 'no-restricted-imports',
+    reported: true,
+  },
+  {
+    name: 'a repo that queries with Drizzle',
+    filePath: 'server/modules/probe/probe.repo.ts',
+    text: "import { eq } from 'drizzle-orm'\nimport { jobs } from '../../db/schema'\nexport const byId = (id: string) => eq(jobs.id, id)\n",
+    rule: 'no-restricted-imports',
+    reported: false,
+  },
+  {
+    name: 'a page that calls the API directly',
+    filePath: 'src/pages/staff/ProbePage.vue',
+    text: '<script setup lang="ts">\nimport { getJob } from \'@/api/jobs\'\nvoid getJob\n</script>\n\n<template><p>probe</p></template>\n',
+    rule: 'no-restricted-imports',
+    reported: true,
+  },
+  {
+    name: 'a component that reaches src/api by a relative path',
+    filePath: 'src/components/records/ProbeCard.vue',
+    text: '<script setup lang="ts">\nimport { getJob } from \'../../api/jobs\'\nvoid getJob\n</script>\n\n<template><p>probe</p></template>\n',
+    rule: 'no-restricted-imports',
+    reported: true,
+  },
+  {
+    name: 'a store that calls the API',
+    filePath: 'src/stores/probe.ts',
+    text: "import { getJob } from '@/api/jobs'\nexport const load = getJob\n",
+    rule: 'no-restricted-imports',
+    reported: false,
+  },
 ]
 
 async function rulesReported(c: LintCase): Promise<string[]> {
