@@ -23,8 +23,14 @@ if ! have_pg_ctl; then
   apt-get install -y -qq postgresql >/dev/null
 fi
 
-if [ ! -d node_modules ] || [ package-lock.json -nt node_modules ]; then
+# Installed packages are stamped with the lock file they came from, so a checkout that only touched the
+# lock's date (a branch switch, a rebase) does not reinstall, and one whose lock changed always does.
+lock_sum=$(sha256sum package-lock.json | cut -d' ' -f1)
+stamp=node_modules/.installed-from-lock
+if [ -L node_modules ]; then
+  : # A linked node_modules belongs to another checkout, which installs it.
+elif [ ! -d node_modules ] || [ "$(cat "$stamp" 2>/dev/null)" != "$lock_sum" ]; then
   echo "Installing npm packages (npm ci)…"
   npm ci --no-audit --no-fund
-  touch node_modules
+  echo "$lock_sum" > "$stamp"
 fi
